@@ -6,18 +6,15 @@
  * listing every bad option (exit 2). No side effects: tested in-process.
  */
 import type { Command } from 'commander';
+import { parseRiskGate, type RiskGate } from '../design/riskGate.js';
 import { CaseError, type CaseProblem, describeFound } from '../errors.js';
+
+export type { RiskGate };
 
 /** `--shard I/N`: the I-th (1-based) of N disjoint deterministic slices. */
 export interface Shard {
   index: number;
   count: number;
-}
-
-/** `--fail-if METRIC>VALUE`: exit 1 when the estimate of METRIC exceeds VALUE. */
-export interface RiskGate {
-  metric: string;
-  threshold: number;
 }
 
 /** The typed result of parsing; absent keys were not given (the case file's value applies). */
@@ -33,7 +30,8 @@ export interface CliOptions {
   resume: boolean;
   untilRelError?: number;
   parquet: boolean;
-  failIf: RiskGate[];
+  /** `--fail-if METRIC>VALUE` or `METRIC<VALUE` (src/design/riskGate.ts judges them). */
+  failIf: Required<RiskGate>[];
   debug: boolean;
   force: boolean;
   horizonS?: number;
@@ -197,7 +195,6 @@ export function addOptions(cmd: Command, keys: readonly OptionKey[]): Command {
 
 const INT = /^[+]?\d+$/;
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
-const METRIC = /^[a-z][a-z0-9_]*$/;
 
 /**
  * Converts commander's raw option values (strings, booleans, string lists) into `CliOptions`.
@@ -239,8 +236,8 @@ export function parseOptions(raw: Readonly<Record<string, unknown>>): CliOptions
         }
       } else {
         for (const item of items) {
-          const gate = typeof item === 'string' ? parseGate(item) : undefined;
-          if (!gate) fail('METRIC>VALUE, e.g. p_shutdown>0.01', item);
+          const gate = typeof item === 'string' ? parseRiskGate(item) : undefined;
+          if (!gate) fail('METRIC>VALUE or METRIC<VALUE, e.g. p_shutdown>0.01', item);
           else options.failIf.push(gate);
         }
       }
@@ -301,14 +298,4 @@ export function parseOptions(raw: Readonly<Record<string, unknown>>): CliOptions
   }
   if (problems.length > 0) throw new CaseError(problems);
   return options;
-}
-
-/** Parses `metric>value`; undefined when malformed. */
-export function parseGate(text: string): RiskGate | undefined {
-  const at = text.indexOf('>');
-  if (at <= 0) return undefined;
-  const metric = text.slice(0, at).trim();
-  const valueText = text.slice(at + 1).trim();
-  if (!METRIC.test(metric) || !NUMBER.test(valueText)) return undefined;
-  return { metric, threshold: Number(valueText) };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { optionTable, parseGate, parseOptions } from '../../src/cli/options.js';
+import { optionTable, parseOptions } from '../../src/cli/options.js';
 import { CaseError } from '../../src/errors.js';
 
 describe('option table', () => {
@@ -38,8 +38,8 @@ describe('parseOptions', () => {
     expect(o.quiet).toBe(false);
     expect(o.untilRelError).toBe(0.1);
     expect(o.failIf).toEqual([
-      { metric: 'p_shutdown', threshold: 0.01 },
-      { metric: 'failures_per_year', threshold: 0.5 },
+      { metric: 'p_shutdown', threshold: 0.01, direction: '>' },
+      { metric: 'failures_per_year', threshold: 0.5, direction: '>' },
     ]);
     expect(o.horizonS).toBe(30);
     expect(o.hour).toBe(8759);
@@ -53,7 +53,7 @@ describe('parseOptions', () => {
   it('reports every bad option at once, each naming the option', () => {
     let caught: unknown;
     try {
-      parseOptions({ scenarios: '1.5', shard: '9/8', failIf: ['p_shutdown<1'], hour: '9000' });
+      parseOptions({ scenarios: '1.5', shard: '9/8', failIf: ['p_shutdown=1'], hour: '9000' });
     } catch (err) {
       caught = err;
     }
@@ -61,12 +61,5 @@ describe('parseOptions', () => {
     const paths = (caught as CaseError).problems.map((p) => p.path).sort();
     expect(paths).toEqual(['--fail-if', '--hour', '--scenarios', '--shard']);
     for (const p of (caught as CaseError).problems) expect(p.message).toMatch(/^expected .*, got /);
-  });
-
-  it('parses risk gates and rejects malformed ones', () => {
-    expect(parseGate('p_load_shed > 1e-3')).toEqual({ metric: 'p_load_shed', threshold: 0.001 });
-    expect(parseGate('>0.1')).toBeUndefined();
-    expect(parseGate('p_shutdown>')).toBeUndefined();
-    expect(parseGate('P-shutdown>0.1')).toBeUndefined();
   });
 });
