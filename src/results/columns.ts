@@ -1,0 +1,114 @@
+/**
+ * The columns of `scenarios.arrow` as one typed table: contract name (snake case), storage kind,
+ * unit and description, grouped by the model that produces them. A group is written only when
+ * its model is part of the build (`kernel.ts` decides), so a column is never a placeholder.
+ *
+ * Storage kinds and their Arrow types:
+ *   int64 -> Int64 (held as BigInt64Array), int16 -> Int16, int8 -> Int8,
+ *   bool -> Bool (held as Uint8Array 0/1, packed to a bitmap when written),
+ *   category -> Dictionary<Utf8, Int8> (held as Int8Array codes into `categories`),
+ *   float64 -> Float64.
+ */
+
+export type ColumnKind = 'int64' | 'int16' | 'int8' | 'bool' | 'category' | 'float64';
+
+/** The models, in kernel order; each contributes one group of columns. */
+export const columnGroups = [
+  'core',
+  'sample',
+  'ride-through',
+  'frequency',
+  'voltage',
+  'outage',
+] as const;
+export type ColumnGroup = (typeof columnGroups)[number];
+
+export interface ColumnSpec {
+  readonly name: string;
+  readonly kind: ColumnKind;
+  readonly unit: string;
+  readonly description: string;
+  readonly group: ColumnGroup;
+  /** `category` columns: the dictionary; code 0 is always the empty string ("none"). */
+  readonly categories?: readonly string[];
+}
+
+export type ColumnArray =
+  | BigInt64Array
+  | Int16Array
+  | Int8Array
+  | Uint8Array
+  | Float64Array
+  | Int32Array;
+
+const f64 = (group: ColumnGroup, name: string, unit: string, description: string): ColumnSpec => ({
+  name,
+  kind: 'float64',
+  unit,
+  description,
+  group,
+});
+
+/** Every column holdfast can write, in file order. */
+export const allColumns: readonly ColumnSpec[] = [
+  {
+    name: 'scenario_id',
+    kind: 'int64',
+    unit: '1',
+    description: 'scenario number; with the seed it fixes every random draw of the scenario',
+    group: 'core',
+  },
+  f64('core', 'weight', '1', 'sampling weight of the scenario (1 for plain Monte Carlo)'),
+];
+
+/** The columns of the given groups, in file order. */
+/** Writes a non-negative integer below 2^53 into a BigInt64Array without allocating a BigInt. */
+export function setInt64(words: Int32Array, row: number, value: number): void {
+  // little-endian word order (x64 and arm64 Node builds)
+  words[2 * row] = (value % 4294967296) | 0;
+  words[2 * row + 1] = Math.floor(value / 4294967296);
+}
+
+export function columnsOf(groups: readonly ColumnGroup[]): ColumnSpec[] {
+  return allColumns.filter((c) => groups.includes(c.group));
+}
+
+/** Allocates one batch worth of storage for a column. */
+export function allocateColumn(spec: ColumnSpec, count: number): ColumnArray {
+  switch (spec.kind) {
+    case 'int64':
+      return new BigInt64Array(count);
+    case 'int16':
+      return new Int16Array(count);
+    case 'int8':
+    case 'category':
+      return new Int8Array(count);
+    case 'bool':
+      return new Uint8Array(count);
+    case 'float64':
+      return new Float64Array(count);
+  }
+}
+
+/** One batch of consecutive scenarios as columns (what a worker returns). */
+export interface ColumnBatch {
+  /** First scenario id of the batch; rows are ids firstId, firstId + 1, ... */
+  firstId: number;
+  count: number;
+  columns: Record<string, ColumnArray>;
+}
+
+export function allocateBatch(
+  specs: readonly ColumnSpec[],
+  firstId: number,
+  count: number,
+): ColumnBatch {
+  const columns: Record<string, ColumnArray> = {};
+  for (const s of specs) columns[s.name] = allocateColumn(s, count);
+  return { firstId, count, columns };
+}
+
+/** The buffers of a batch, for a zero-copy transfer between threads. */
+export function batchBuffers(b: ColumnBatch): ArrayBuffer[] {
+  return Object.values(b.columns).map((a) => a.buffer as ArrayBuffer);
+}
