@@ -36,7 +36,13 @@ import {
   type ShardSpec,
   shardRange,
 } from './plan.js';
-import { createSummary, feedSummary, type SummaryRow, type SummarySink } from './summary-feed.js';
+import {
+  createSummary,
+  feedSummary,
+  type SummaryRow,
+  type SummarySink,
+  summarySettings,
+} from './summary-feed.js';
 import type { BatchTask, WorkerSetup } from './worker.js';
 
 /** A parsed case and where it came from (structurally the case loader's `LoadedCase`). */
@@ -104,7 +110,11 @@ export function caseSha256(input: CaseForRun): string {
 }
 
 /** Feeds a batch to the summary in feed blocks (batches start on the block grid). */
-function feedBatch(sink: SummarySink | undefined, specs: readonly ColumnSpec[], b: ColumnBatch) {
+export function feedBatch(
+  sink: SummarySink | undefined,
+  specs: readonly ColumnSpec[],
+  b: ColumnBatch,
+) {
   if (!sink) return;
   for (let from = 0; from < b.count; from += feedBlockSize)
     feedSummary(sink, specs, b, from, Math.min(feedBlockSize, b.count - from));
@@ -136,7 +146,7 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
     manifest: join(dir, 'run.json'),
   };
 
-  const sink = createSummary(c);
+  const sink = createSummary(summarySettings(c));
   const encoder = new BatchEncoder(specs);
   const plannedChecks =
     opts.untilRelError === undefined

@@ -23,9 +23,24 @@ export interface SummarySink {
   halfWidth(metric: string): { estimate: number; halfWidth: number };
 }
 
+/** What the summary needs to know of the case (also kept in run.json, for merge). */
+export interface SummarySettings {
+  confidenceLevel: number;
+  islandingRatePerYear: number;
+  failureDefinition: string;
+}
+
+export function summarySettings(c: Case): SummarySettings {
+  return {
+    confidenceLevel: c.monteCarlo.confidenceLevel,
+    islandingRatePerYear: c.events.islandingRatePerYear,
+    failureDefinition: c.monteCarlo.failureDefinition,
+  };
+}
+
 /** The accumulator for this build, or undefined while the stats module has not landed. */
-export function createSummary(c: Case): SummarySink | undefined {
-  void c;
+export function createSummary(settings: SummarySettings): SummarySink | undefined {
+  void settings;
   return undefined;
 }
 
