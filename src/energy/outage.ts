@@ -1,0 +1,372 @@
+/**
+ * The outage hours: from the end of the frequency event to the return of the grid, an energy
+ * balance in steps of monteCarlo.energyStepH (the first step partial, from the event's horizon;
+ * the last one ends with the outage). Within a step the dispatch is constant (dispatch.ts) and the
+ * step is split exactly where a battery reaches its floor or ceiling, a tank runs dry or a unit
+ * fails, so durations such as a battery's E * eta / P come out exact instead of rounded to the step.
+ *
+ * Energy over a segment of length h (kWh):
+ *   sources  = (PV + wind + gensets + fuel cells) * h + sum(E_i * max(0, -dSoC_i))
+ *   sinks    = served * h + sum(E_i * max(0, dSoC_i)) + (curtailed + dumped) * h + losses
+ *   losses   = sum(P_dis * h * (1/eta_d - 1)) + sum(P_ch * h * (1 - eta_c))
+ * and |sources - sinks| / sources is recorded (energyBalanceError); it must stay below 1e-9.
+ *
+ * Shutdown: when no grid-forming source is left (dispatch.ts) or a contingency's frequency event
+ * ends in shutdown. Restart only if system.blackStartAllowed, blackStartDelayH after the shutdown
+ * (or at a later step start) with a grid-forming source available; restart is not simulated as a
+ * frequency event. Healthy units tripped by protection return at the next step; failed units
+ * (forced outage, failed start, failure during the outage) stay out until the grid returns.
+ */
+import { RunError } from '../errors.js';
+import type { Scenario } from '../sample/scenario.js';
+import { hoursToFloor, hoursToFull, socAfter } from './battery-energy.js';
+import {
+  describeWorstContingency,
+  fillContingencyPoint,
+  HOURS_PER_YEAR,
+  recordContingency,
+} from './contingency.js';
+import { dispatchSegment, SOC_MARGIN } from './dispatch.js';
+import { fuelRateLPerH } from './genset-fuel.js';
+import {
+  type EventOutcome,
+  KIND_BATTERY,
+  KIND_FUELCELL,
+  KIND_GENSET,
+  type OutageModel,
+  TIER_CRITICAL,
+} from './outage-model.js';
+import type { OutageResult } from './outage-result.js';
+
+export type { EventOutcome, OutageHooks } from './outage-model.js';
+export { buildOutageModel, OutageModel } from './outage-model.js';
+export { OutageResult } from './outage-result.js';
+
+/** Time tolerance of step and segment ends, h (3.6 microseconds). */
+const TIME_EPS_H = 1e-9;
+/** Load counts as unserved when more than this fraction of the demand is shed. */
+const SHED_REL_TOL = 1e-9;
+/** A guard against a segment loop that cannot advance (never reached by a consistent model). */
+const MAX_SEGMENTS_PER_STEP = 64;
+
+/** Simulates the outage of scenario `sc` after its frequency event `ev`, into `out`. */
+export function simulateOutage(
+  m: OutageModel,
+  sc: Scenario,
+  ev: EventOutcome,
+  out: OutageResult,
+): void {
+  out.reset();
+  const n = m.sourceCount;
+  const outageH = sc.outageDurationH;
+  out.outageH = outageH;
+  m.worstSeverity = -1;
+  m.worstShedKw = 0;
+  m.worstSource = -1;
+  m.worstAtH = 0;
+  m.worstCause = '';
+
+  let minSoc = Number.POSITIVE_INFINITY;
+  for (let i = 0; i < n; i++) {
+    const failed = sc.available[i] === 0 || sc.failsToStart[i] === 1 ? 1 : 0;
+    m.failed[i] = failed;
+    m.running[i] = failed === 0 && ev.runningAtEnd[i] === 1 ? 1 : 0;
+    m.fuelLeft[i] = m.fuelStock[i]!;
+    if (m.kind[i] === KIND_BATTERY) {
+      const s = ev.socAtEnd[i]!;
+      m.soc[i] = Number.isFinite(s) ? s : sc.socFraction[i]!;
+      if (failed === 0 && m.soc[i]! < minSoc) minSoc = m.soc[i]!;
+    } else m.soc[i] = 0;
+  }
+  if (Number.isFinite(minSoc)) out.minSoc = minSoc;
+  for (let j = 0; j < m.loadCount; j++) m.loadCap[j] = ev.loadServedFraction[j]!;
+
+  // The first minute (the frequency event): the load shed at its end, or all load after a
+  // shutdown, is counted unserved over the whole event (an upper bound of at most horizonS).
+  const t0 = Math.min(m.eventH, outageH);
+  let loadKw = 0;
+  let criticalKw = 0;
+  for (let j = 0; j < m.loadCount; j++) {
+    loadKw += sc.loadKw[j]!;
+    if (m.loadTier[j] === TIER_CRITICAL) criticalKw += sc.loadKw[j]!;
+  }
+  m.down = false;
+  m.downSinceH = 0;
+  if (ev.shutdown) {
+    shutDown(m, out, 0, criticalKw);
+    out.unservedKwh += loadKw * t0;
+    out.unservedCriticalKwh += criticalKw * t0;
+    if (loadKw > 0) out.lolH += t0;
+  } else {
+    const shedKw = ev.shedKwByTier[0]! + ev.shedKwByTier[1]! + ev.shedKwByTier[2]!;
+    out.unservedKwh += shedKw * t0;
+    out.unservedCriticalKwh += ev.shedKwByTier[TIER_CRITICAL]! * t0;
+    if (shedKw > SHED_REL_TOL * loadKw) out.lolH += t0;
+    let criticalCut = ev.shedKwByTier[TIER_CRITICAL]! > SHED_REL_TOL * criticalKw;
+    for (let j = 0; j < m.loadCount; j++)
+      if (m.loadTier[j] === TIER_CRITICAL && m.loadCap[j]! < 1 && sc.loadKw[j]! > 0)
+        criticalCut = true;
+    if (criticalCut) loseCritical(out, 0);
+  }
+
+  const stepH = m.stepH;
+  let t = t0;
+  let firstStep = true;
+  let hourLoaded = -1;
+  while (outageH - t > TIME_EPS_H) {
+    const k = Math.floor(t / stepH + TIME_EPS_H);
+    let stepEnd = (k + 1) * stepH;
+    if (stepEnd - t <= TIME_EPS_H) stepEnd += stepH;
+    if (stepEnd > outageH) stepEnd = outageH;
+    const hourIndex = Math.floor(t + TIME_EPS_H);
+    if (hourIndex !== hourLoaded) {
+      loadConditions(m, sc, hourIndex);
+      hourLoaded = hourIndex;
+    }
+    if (!firstStep) {
+      m.loadCap.fill(1);
+      if (!m.down) returnHealthyUnits(m);
+    }
+    firstStep = false;
+    let guard = 0;
+    while (stepEnd - t > TIME_EPS_H) {
+      t = advanceSegment(m, sc, out, t, stepEnd);
+      if (++guard > MAX_SEGMENTS_PER_STEP + 4 * n)
+        throw new RunError(
+          `outage energy balance of scenario ${sc.scenarioId} did not advance at ${t} h`,
+        );
+    }
+    t = stepEnd;
+  }
+
+  if (!out.criticalLost) out.survivedH = outageH;
+  out.worstContingency = describeWorstContingency(m);
+}
+
+/** The hour's load and available power: the scenario's own in the event hour, then the sampler's. */
+function loadConditions(m: OutageModel, sc: Scenario, hourIndex: number): void {
+  if (hourIndex === 0) {
+    m.hourLoadKw.set(sc.loadKw);
+    m.hourAvailableKw.set(sc.availableKw);
+  } else {
+    m.hooks.conditionsAtHour(
+      (sc.hourOfYear + hourIndex) % HOURS_PER_YEAR,
+      m.hourLoadKw,
+      m.hourAvailableKw,
+    );
+  }
+}
+
+/** Healthy units tripped by protection (not failed, fuel left) are back online. */
+function returnHealthyUnits(m: OutageModel): void {
+  for (let i = 0; i < m.sourceCount; i++)
+    m.running[i] = m.failed[i] === 0 && m.fuelLeft[i]! > 0 ? 1 : 0;
+}
+
+function loseCritical(out: OutageResult, tH: number): void {
+  if (out.criticalLost) return;
+  out.criticalLost = true;
+  out.survivedH = tH;
+}
+
+function shutDown(m: OutageModel, out: OutageResult, tH: number, criticalKw: number): void {
+  m.down = true;
+  m.downSinceH = tH;
+  m.running.fill(0);
+  m.outKw.fill(0);
+  if (!out.shutdown) {
+    out.shutdown = true;
+    out.shutdownHour = tH;
+  }
+  if (criticalKw > 0) loseCritical(out, tH);
+}
+
+/** A grid-forming source could restart the island: a healthy genset with fuel or a charged battery. */
+function canBlackStart(m: OutageModel): boolean {
+  for (let i = 0; i < m.sourceCount; i++) {
+    if (m.failed[i] === 1) continue;
+    if (m.kind[i] === KIND_GENSET && m.fuelLeft[i]! > 0) return true;
+    if (
+      m.kind[i] === KIND_BATTERY &&
+      m.gridForming[i] === 1 &&
+      m.soc[i]! > m.socMin[i]! + SOC_MARGIN
+    )
+      return true;
+  }
+  return false;
+}
+
+function criticalDemandKw(m: OutageModel): number {
+  let kw = 0;
+  for (let j = 0; j < m.loadCount; j++) if (m.loadTier[j] === TIER_CRITICAL) kw += m.hourLoadKw[j]!;
+  return kw;
+}
+
+/** Failures due at tH: each running unit's failure triggers one frequency event. */
+function processFailures(m: OutageModel, sc: Scenario, out: OutageResult, tH: number): void {
+  for (let k = 0; k < m.sourceCount; k++) {
+    if (m.failed[k] === 1 || sc.timeToFailureH[k]! > tH + TIME_EPS_H) continue;
+    const wasRunning = m.running[k] === 1 && !m.down;
+    if (!wasRunning) {
+      m.failed[k] = 1;
+      m.running[k] = 0;
+      continue;
+    }
+    dispatchSegment(m);
+    fillContingencyPoint(m, sc, k, tH);
+    m.failed[k] = 1;
+    m.running[k] = 0;
+    const ev = m.hooks.runContingency(m.op);
+    out.contingencies++;
+    recordContingency(m, ev, k, tH);
+    if (ev.shutdown) {
+      shutDown(m, out, tH, criticalDemandKw(m));
+      continue;
+    }
+    for (let i = 0; i < m.sourceCount; i++) {
+      m.running[i] = m.running[i] === 1 && ev.runningAtEnd[i] === 1 ? 1 : 0;
+      if (m.kind[i] === KIND_BATTERY && m.running[i] === 1) {
+        const s = ev.socAtEnd[i]!;
+        if (Number.isFinite(s)) m.soc[i] = s;
+      }
+    }
+    for (let j = 0; j < m.loadCount; j++) {
+      const served = ev.loadServedFraction[j]!;
+      if (served < m.loadCap[j]!) m.loadCap[j] = served;
+    }
+    if (ev.shedKwByTier[TIER_CRITICAL]! > 0) loseCritical(out, tH);
+  }
+}
+
+function nextFailureH(m: OutageModel, sc: Scenario): number {
+  let next = Number.POSITIVE_INFINITY;
+  for (let i = 0; i < m.sourceCount; i++)
+    if (m.failed[i] === 0 && sc.timeToFailureH[i]! < next) next = sc.timeToFailureH[i]!;
+  return next;
+}
+
+/** Integrates one segment from tH (at most to stepEnd) and returns where it ended. */
+function advanceSegment(
+  m: OutageModel,
+  sc: Scenario,
+  out: OutageResult,
+  tH: number,
+  stepEnd: number,
+): number {
+  processFailures(m, sc, out, tH);
+  let segEnd = Math.min(stepEnd, nextFailureH(m, sc));
+
+  if (m.down) {
+    if (m.blackStartAllowed) {
+      const restartAt = m.downSinceH + m.blackStartDelayH;
+      if (tH >= restartAt - TIME_EPS_H) {
+        if (canBlackStart(m)) {
+          m.down = false;
+          out.restarts++;
+          m.loadCap.fill(1);
+          returnHealthyUnits(m);
+          return tH;
+        }
+      } else if (restartAt < segEnd) segEnd = restartAt;
+    }
+    const h = segEnd - tH;
+    let demandKw = 0;
+    let critKw = 0;
+    for (let j = 0; j < m.loadCount; j++) {
+      demandKw += m.hourLoadKw[j]!;
+      if (m.loadTier[j] === TIER_CRITICAL) critKw += m.hourLoadKw[j]!;
+    }
+    out.unservedKwh += demandKw * h;
+    out.unservedCriticalKwh += critKw * h;
+    if (demandKw > 0) out.lolH += h;
+    if (critKw > 0) loseCritical(out, tH);
+    out.segments++;
+    return segEnd;
+  }
+
+  dispatchSegment(m);
+  const f = m.flows;
+  if (!f.gridFormed) {
+    shutDown(m, out, tH, criticalDemandKw(m));
+    return tH;
+  }
+
+  // Where the dispatch stops being valid: a battery at its floor or ceiling, a tank dry.
+  let limiter = -1;
+  for (let i = 0; i < m.sourceCount; i++) {
+    const p = m.outKw[i]!;
+    if (p === 0) continue;
+    let dtH = Number.POSITIVE_INFINITY;
+    const kind = m.kind[i];
+    if (kind === KIND_BATTERY) {
+      dtH =
+        p > 0
+          ? hoursToFloor(m.soc[i]!, m.socMin[i]!, m.energyKwh[i]!, m.etaDischarge[i]!, p)
+          : hoursToFull(m.soc[i]!, m.socMax[i]!, m.energyKwh[i]!, m.etaCharge[i]!, -p);
+    } else if (kind === KIND_GENSET && m.fuelTracked[i] === 1) {
+      dtH = m.fuelLeft[i]! / fuelRateLPerH(m.fuelNoLoadLPerH[i]!, m.fuelSlopeLPerKwh[i]!, p);
+    } else if (kind === KIND_FUELCELL) {
+      dtH = m.fuelLeft[i]! / p;
+    }
+    if (tH + dtH < segEnd) {
+      segEnd = tH + dtH;
+      limiter = i;
+    }
+  }
+  const h = segEnd - tH;
+
+  let sourcesKwh = (f.renewableKw - f.curtailKw + f.gensetKw + f.fuelCellKw) * h;
+  let storedKwh = 0;
+  let lossKwh = 0;
+  for (let i = 0; i < m.sourceCount; i++) {
+    const p = m.outKw[i]!;
+    const kind = m.kind[i];
+    if (kind === KIND_BATTERY) {
+      if (p === 0) continue;
+      const before = m.soc[i]!;
+      let after = socAfter(before, m.energyKwh[i]!, m.etaCharge[i]!, m.etaDischarge[i]!, p, h);
+      if (i === limiter) after = p > 0 ? m.socMin[i]! : m.socMax[i]!;
+      m.soc[i] = after;
+      const dKwh = m.energyKwh[i]! * (after - before);
+      if (dKwh < 0) {
+        sourcesKwh -= dKwh;
+        lossKwh += p * h * (1 / m.etaDischarge[i]! - 1);
+      } else {
+        storedKwh += dKwh;
+        lossKwh += -p * h * (1 - m.etaCharge[i]!);
+      }
+      if (!(after >= out.minSoc)) out.minSoc = after;
+    } else if (kind === KIND_GENSET && m.running[i] === 1 && m.fuelLeft[i]! > 0) {
+      if (m.fuelTracked[i] === 1) {
+        const usedL = fuelRateLPerH(m.fuelNoLoadLPerH[i]!, m.fuelSlopeLPerKwh[i]!, p) * h;
+        if (m.gasFuel[i] === 1) out.fuelUsedGasM3 += usedL;
+        else out.fuelUsedL += usedL;
+        m.fuelLeft[i] = i === limiter ? 0 : m.fuelLeft[i]! - usedL;
+        if (m.fuelLeft[i]! <= 0) m.running[i] = 0;
+      }
+    } else if (kind === KIND_FUELCELL && p > 0) {
+      out.fuelCellKwh += p * h;
+      m.fuelLeft[i] = i === limiter ? 0 : m.fuelLeft[i]! - p * h;
+      if (m.fuelLeft[i]! <= 0) m.running[i] = 0;
+    }
+  }
+  const servedKwh = (f.demandKw - f.shedKw) * h;
+  const spilledKwh = (f.curtailKw + f.dumpKw) * h;
+  const sinksKwh = servedKwh + storedKwh + spilledKwh + lossKwh;
+  const scaleKwh = Math.max(sourcesKwh, sinksKwh);
+  if (scaleKwh > 0) {
+    const residual = Math.abs(sourcesKwh - sinksKwh) / scaleKwh;
+    if (residual > out.energyBalanceError) out.energyBalanceError = residual;
+  }
+  out.curtailedKwh += spilledKwh;
+  out.storageLossKwh += lossKwh;
+  const unservedKw = f.shedKw + f.cappedKw;
+  const critUnservedKw = m.tierShedKw[TIER_CRITICAL]! + m.tierCappedKw[TIER_CRITICAL]!;
+  out.unservedKwh += unservedKw * h;
+  out.unservedCriticalKwh += critUnservedKw * h;
+  if (unservedKw > SHED_REL_TOL * (f.demandKw + f.cappedKw)) out.lolH += h;
+  const critDemandKw = m.tierDemandKw[TIER_CRITICAL]! + m.tierCappedKw[TIER_CRITICAL]!;
+  if (critUnservedKw > SHED_REL_TOL * critDemandKw) loseCritical(out, tH);
+  out.segments++;
+  return segEnd;
+}
