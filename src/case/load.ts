@@ -14,6 +14,7 @@ import { readFile, stat } from 'node:fs/promises';
 import { dirname, extname, resolve } from 'node:path';
 import YAML from 'yaml';
 import { CaseError, type CaseProblem, describeFound } from '../errors.js';
+import { type CsvCache, type CsvProfileRef, readCsvProfile } from '../sample/csv-profile.js';
 import { applyOverrides } from './overrides.js';
 import type { Case } from './schema.js';
 import { validateCase } from './validate.js';
@@ -67,8 +68,9 @@ function flowDepth(text: string): number {
   return deepest;
 }
 
+/** A problem with the file as a whole: its path stands where a field path would. */
 function fileProblem(path: string, message: string): CaseError {
-  return CaseError.single('', `${path}: ${message}`);
+  return CaseError.single(path, message);
 }
 
 /** Decodes the file as UTF-8 text; throws CaseError for binary data. */
@@ -129,8 +131,8 @@ export function parseCaseText(text: string, path: string): unknown {
     if (trouble.length > 0) {
       throw new CaseError(
         trouble.slice(0, 20).map((e) => ({
-          path: '',
-          message: `${path}:${e.linePos?.[0]?.line ?? '?'}:${e.linePos?.[0]?.col ?? '?'}: expected valid YAML, got ${e.message.split('\n')[0]}`,
+          path: `${path}:${e.linePos?.[0]?.line ?? '?'}:${e.linePos?.[0]?.col ?? '?'}`,
+          message: `expected valid YAML, got ${e.message.split('\n')[0]}`,
         })),
       );
     }
@@ -155,30 +157,33 @@ export function parseCaseText(text: string, path: string): unknown {
   return raw;
 }
 
-/** Problems with CSV profile files that do not exist next to the case. */
-async function missingProfiles(c: Case, dir: string): Promise<CaseProblem[]> {
-  const refs: [string, string][] = [];
+/**
+ * Problems with the CSV profiles of a case: each one is read with the sampler's own reader
+ * (src/sample/csv-profile.ts: 8760 non-negative rows), and every failure is collected.
+ */
+function profileProblems(c: Case, dir: string): CaseProblem[] {
+  const refs: CsvProfileRef[] = [];
   c.loads.forEach((l, i) => {
-    if (l.profile.kind === 'csv') refs.push([`/loads/${i}/profile/file`, l.profile.file]);
+    if (l.profile.kind === 'csv')
+      refs.push({ file: l.profile.file, column: l.profile.column, path: `/loads/${i}/profile` });
   });
   c.sources.forEach((s, i) => {
     if ((s.kind === 'pv' || s.kind === 'wind') && s.resource.kind === 'csv')
-      refs.push([`/sources/${i}/resource/file`, s.resource.file]);
+      refs.push({
+        file: s.resource.file,
+        column: s.resource.column,
+        path: `/sources/${i}/resource`,
+      });
   });
+  const cache: CsvCache = new Map();
   const problems: CaseProblem[] = [];
-  for (const [path, file] of refs) {
-    const full = resolve(dir, file);
-    const info = await stat(full).catch((err: NodeJS.ErrnoException) => err);
-    if (info instanceof Error)
-      problems.push({
-        path,
-        message: `expected a CSV file relative to the case file, got ${JSON.stringify(file)} (${info.code ?? info.message})`,
-      });
-    else if (!info.isFile())
-      problems.push({
-        path,
-        message: `expected a CSV file, got a directory ${JSON.stringify(file)}`,
-      });
+  for (const ref of refs) {
+    try {
+      readCsvProfile(ref, dir, cache);
+    } catch (err) {
+      if (!(err instanceof CaseError)) throw err;
+      problems.push(...err.problems);
+    }
   }
   return problems;
 }
@@ -211,7 +216,7 @@ export async function loadCase(
   const raw = applyOverrides(parseCaseText(decodeCaseText(bytes, path), path), overrides);
   const validated = validateCase(raw);
   const dir = dirname(full);
-  const missing = await missingProfiles(validated, dir);
+  const missing = profileProblems(validated, dir);
   if (missing.length > 0) throw new CaseError(missing);
   return { case: validated, path: full, dir, sha256, raw };
 }

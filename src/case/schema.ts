@@ -374,6 +374,12 @@ export const loadSchema = z.strictObject({
   tier: z.enum(loadTiers).describe('critical is never shed by UFLS; sheddable goes first'),
   peakKw: positive(),
   powerFactor: finite().min(0.5).max(1).default(0.95),
+  kvarPerKw: nonNegative()
+    .max(10)
+    .optional()
+    .describe(
+      'reactive demand per active demand (Q/P, lagging positive); overrides powerFactor, e.g. for published feeders with loads below 0.5 power factor',
+    ),
   frequencySensitivityPu: nonNegative()
     .default(1)
     .describe('load damping D: % power per % frequency (1-2 typical, from memory)'),

@@ -2,7 +2,13 @@
  * The command table: one `AddCommand` per file in src/cli/commands/. To add a command, write
  * src/cli/commands/<name>.ts and add one import and one entry here (docs/cli.md).
  */
+import { addCheckCommand } from './commands/check.js';
+import { addInitCommand } from './commands/init.js';
 import { addSchemaCommand } from './commands/schema.js';
 import type { AddCommand } from './frame.js';
 
-export const addCommands: readonly AddCommand[] = [addSchemaCommand];
+export const addCommands: readonly AddCommand[] = [
+  addCheckCommand,
+  addSchemaCommand,
+  addInitCommand,
+];
