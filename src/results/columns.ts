@@ -59,6 +59,46 @@ export const allColumns: readonly ColumnSpec[] = [
     group: 'core',
   },
   f64('core', 'weight', '1', 'sampling weight of the scenario (1 for plain Monte Carlo)'),
+  // sampler: the operating point just before separation
+  {
+    name: 'hour_of_year',
+    kind: 'int16',
+    unit: 'h',
+    description: 'hour of the separation event, 0-8759 (0 = 1 January 00:00, local standard time)',
+    group: 'sample',
+  },
+  {
+    name: 'month',
+    kind: 'int8',
+    unit: '1',
+    description: 'month of the event, 1-12',
+    group: 'sample',
+  },
+  f64('sample', 'load_kw', 'kW', 'total demand of all loads at the event hour'),
+  f64('sample', 'pv_kw', 'kW', 'PV output just before separation, all PV sources'),
+  f64('sample', 'wind_kw', 'kW', 'wind output just before separation, all wind sources'),
+  f64(
+    'sample',
+    'battery_soc',
+    '1',
+    'state of charge at separation, energy-weighted over available batteries (0-1; NaN if none)',
+  ),
+  f64(
+    'sample',
+    'grid_import_kw',
+    'kW',
+    'power from the utility just before separation (negative is export)',
+  ),
+  {
+    name: 'sources_available',
+    kind: 'int16',
+    unit: '1',
+    description: 'sources not on forced outage or maintenance at the event hour',
+    group: 'sample',
+  },
+  f64('sample', 'dip_retained_pu', 'pu', 'retained voltage at the PCC during the fault'),
+  f64('sample', 'dip_duration_s', 's', 'duration of the voltage dip before separation'),
+  f64('sample', 'outage_duration_h', 'h', 'sampled duration of the utility outage'),
 ];
 
 /** The columns of the given groups, in file order. */

@@ -18,7 +18,10 @@ export interface RunManifest {
   tool: 'holdfast';
   toolVersion: string;
   caseName: string;
+  /** SHA-256 of the case file's bytes (before --set overrides). */
   caseSha256: string;
+  /** SHA-256 of the validated case after overrides (resume and merge compare this one). */
+  caseContentSha256: string;
   seed: number | string;
   /** Scenarios asked for (the whole study, all shards); the cap under --until-rel-error. */
   scenariosRequested: number;
@@ -30,6 +33,8 @@ export interface RunManifest {
   shard: { index: number; count: number } | null;
   workers: number;
   batchSize: number;
+  /** Ids per summary update, shard boundary unit (whole sampling-plan blocks). */
+  feedBlock: number;
   wallSeconds: number;
   scenariosPerSecond: number;
   status: 'complete' | 'partial';

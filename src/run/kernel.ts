@@ -22,6 +22,9 @@ import {
   columnsOf,
   setInt64,
 } from '../results/columns.js';
+import { monthOfHour } from '../sample/calendar.js';
+import { compileSampler, sampleScenario } from '../sample/sampler.js';
+import { Scenario } from '../sample/scenario.js';
 
 /** Test hooks that make the kernel fail on purpose (the pool's retry and exit-3 paths). */
 export interface KernelFaults {
@@ -45,29 +48,89 @@ export interface ScenarioKernel {
 
 /** The column groups this build produces, in kernel order. */
 export function kernelGroups(): ColumnGroup[] {
-  return ['core'];
+  return ['core', 'sample'];
+}
+
+/** Indices of the sources of one kind, for the per-kind sums of the sample columns. */
+function indicesOf(c: Case, kind: Case['sources'][number]['kind']): Int32Array {
+  const out: number[] = [];
+  c.sources.forEach((s, i) => {
+    if (s.kind === kind) out.push(i);
+  });
+  return Int32Array.from(out);
 }
 
 /** Compiles the case once (per worker) into a kernel. `caseDir` resolves profile files. */
 export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): ScenarioKernel {
-  void c;
-  void caseDir;
   const groups = kernelGroups();
   const specs = columnsOf(groups);
   const faults = opts.faults ?? {};
+  const seed = opts.seed;
+  const sampler = compileSampler(c, caseDir);
+  const sc = new Scenario(c.sources.length, c.loads.length);
+  const pvIdx = indicesOf(c, 'pv');
+  const windIdx = indicesOf(c, 'wind');
+  const batteryIdx = indicesOf(c, 'battery');
+  const batteryKwh = Float64Array.from(batteryIdx, (i) => {
+    const s = c.sources[i]!;
+    return s.kind === 'battery' ? s.energyKwh : 0;
+  });
 
   function runBatch(firstId: number, count: number): ColumnBatch {
     const batch = allocateBatch(specs, firstId, count);
-    const cols = batch.columns;
-    const idWords = new Int32Array(cols['scenario_id']!.buffer);
-    const weight = cols['weight'] as Float64Array;
+    const col = batch.columns;
+    const idWords = new Int32Array(col['scenario_id']!.buffer);
+    const weight = col['weight'] as Float64Array;
+    const hour = col['hour_of_year'] as Int16Array;
+    const month = col['month'] as Int8Array;
+    const loadKw = col['load_kw'] as Float64Array;
+    const pvKw = col['pv_kw'] as Float64Array;
+    const windKw = col['wind_kw'] as Float64Array;
+    const soc = col['battery_soc'] as Float64Array;
+    const gridKw = col['grid_import_kw'] as Float64Array;
+    const nAvailable = col['sources_available'] as Int16Array;
+    const dipPu = col['dip_retained_pu'] as Float64Array;
+    const dipS = col['dip_duration_s'] as Float64Array;
+    const outageH = col['outage_duration_h'] as Float64Array;
     for (let row = 0; row < count; row++) {
       const id = firstId + row;
       if (id === faults.throwAtScenarioId)
         throw new RunError(`scenario ${id}: injected failure (test hook)`);
       if (id === faults.crashAtScenarioId) process.exit(70);
+      try {
+        sampleScenario(sampler, seed, id, sc);
+      } catch (err) {
+        throw new RunError(`scenario ${id}: ${(err as Error).message}`, { cause: err });
+      }
       setInt64(idWords, row, id);
-      weight[row] = 1;
+      weight[row] = sc.weight;
+      hour[row] = sc.hourOfYear;
+      month[row] = monthOfHour(sc.hourOfYear) + 1;
+      let sum = 0;
+      for (let i = 0; i < sc.loadCount; i++) sum += sc.loadKw[i]!;
+      loadKw[row] = sum;
+      sum = 0;
+      for (let k = 0; k < pvIdx.length; k++) sum += sc.dispatchKw[pvIdx[k]!]!;
+      pvKw[row] = sum;
+      sum = 0;
+      for (let k = 0; k < windIdx.length; k++) sum += sc.dispatchKw[windIdx[k]!]!;
+      windKw[row] = sum;
+      let kwh = 0;
+      sum = 0;
+      for (let k = 0; k < batteryIdx.length; k++) {
+        const i = batteryIdx[k]!;
+        if (sc.available[i] === 0) continue;
+        kwh += batteryKwh[k]!;
+        sum += batteryKwh[k]! * sc.socFraction[i]!;
+      }
+      soc[row] = kwh > 0 ? sum / kwh : Number.NaN;
+      gridKw[row] = sc.gridImportKw;
+      let n = 0;
+      for (let i = 0; i < sc.sourceCount; i++) n += sc.available[i]!;
+      nAvailable[row] = n;
+      dipPu[row] = sc.dipRetainedPu;
+      dipS[row] = sc.dipDurationS;
+      outageH[row] = sc.outageDurationH;
     }
     return batch;
   }

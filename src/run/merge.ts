@@ -39,11 +39,12 @@ export async function mergeShards(
           message: `${what} ${String(b)} differs from ${String(a)} in ${shards[0]!.dir}`,
         });
     };
-    differs('case SHA-256', first.caseSha256, m.caseSha256);
+    differs('case SHA-256', first.caseContentSha256, m.caseContentSha256);
     differs('seed', first.seed, m.seed);
     differs('scenariosRequested', first.scenariosRequested, m.scenariosRequested);
     differs('columnGroups', first.columnGroups.join(), m.columnGroups.join());
     differs('confidenceLevel', first.confidenceLevel, m.confidenceLevel);
+    differs('feedBlock', first.feedBlock, m.feedBlock);
   }
   shards.sort((a, b) => a.m.idStart - b.m.idStart);
   for (let k = 1; k < shards.length; k++) {
@@ -81,7 +82,7 @@ export async function mergeShards(
       for await (const rb of readRecordBatches(file)) {
         const b = toColumnBatch(rb, specs, file);
         await out.write(encoder.encode(b));
-        feedBatch(sink, specs, b);
+        feedBatch(sink, specs, b, first.feedBlock);
         rows += b.count;
       }
       if (rows !== m.idStart - shards[0]!.m.idStart + m.scenarioCount) contiguous = false;

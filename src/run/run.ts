@@ -11,10 +11,10 @@
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, rmSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
-import { dirname, join } from 'node:path';
+import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { Piscina } from 'piscina';
-import type { Case } from '../case/schema.js';
+import type { LoadedCase } from '../case/load.js';
 import { CaseError, RunError } from '../errors.js';
 import { readRecordBatches, toColumnBatch } from '../results/arrow-reader.js';
 import { ArrowFileSink, BatchEncoder } from '../results/arrow-writer.js';
@@ -26,13 +26,14 @@ import {
   toolVersion,
   writeManifest,
 } from '../results/manifest.js';
+import { copyArrowToParquet } from '../results/parquet.js';
 import { writeSummaryArrow } from '../results/summary-arrow.js';
 import { type KernelFaults, kernelGroups } from './kernel.js';
 import {
   alignBatchSize,
   checkpoints,
   defaultBatchSize,
-  feedBlockSize,
+  feedBlockOf,
   type ShardSpec,
   shardRange,
 } from './plan.js';
@@ -44,15 +45,6 @@ import {
   summarySettings,
 } from './summary-feed.js';
 import type { BatchTask, WorkerSetup } from './worker.js';
-
-/** A parsed case and where it came from (structurally the case loader's `LoadedCase`). */
-export interface CaseForRun {
-  case: Case;
-  /** Path of the case file (its stem names the default output folder). */
-  path: string;
-  /** SHA-256 of the case file bytes; computed from the parsed case if absent. */
-  sha256?: string;
-}
 
 export interface RunOptions {
   /** Output folder (created if missing). */
@@ -72,6 +64,8 @@ export interface RunOptions {
   firstCheckpoint?: number;
   /** Scenarios per task; rounded to a multiple of the feed block (100). */
   batchSize?: number;
+  /** Also write Parquet copies (scenarios.parquet, summary.parquet). */
+  parquet?: boolean;
   /** Called after each written batch. */
   onProgress?: (done: number, total: number) => void;
   /** Aborting stops the run gracefully (SIGINT/SIGTERM). */
@@ -105,8 +99,9 @@ function workerFile(): { filename: string; execArgv: string[] } {
   return { filename: ts, execArgv: [...process.execArgv, '--import', 'tsx'] };
 }
 
-export function caseSha256(input: CaseForRun): string {
-  return input.sha256 ?? createHash('sha256').update(JSON.stringify(input.case)).digest('hex');
+/** SHA-256 of the validated case after overrides and defaults (what the scenarios depend on). */
+export function caseContentSha256(loaded: LoadedCase): string {
+  return createHash('sha256').update(JSON.stringify(loaded.case)).digest('hex');
 }
 
 /** Feeds a batch to the summary in feed blocks (batches start on the block grid). */
@@ -114,29 +109,31 @@ export function feedBatch(
   sink: SummarySink | undefined,
   specs: readonly ColumnSpec[],
   b: ColumnBatch,
+  block: number,
 ) {
   if (!sink) return;
-  for (let from = 0; from < b.count; from += feedBlockSize)
-    feedSummary(sink, specs, b, from, Math.min(feedBlockSize, b.count - from));
+  for (let from = 0; from < b.count; from += block)
+    feedSummary(sink, specs, b, from, Math.min(block, b.count - from));
 }
 
 /** Runs the assessment of a parsed case; see docs/runner.md for the pipeline. */
-export async function runAssessment(input: CaseForRun, opts: RunOptions): Promise<RunOutcome> {
+export async function runAssessment(input: LoadedCase, opts: RunOptions): Promise<RunOutcome> {
   const started = process.hrtime.bigint();
   const c = input.case;
   const seed = opts.seed ?? c.monteCarlo.seed;
   const total = opts.scenarios ?? c.monteCarlo.scenarios;
   const workers = Math.max(1, opts.workers ?? availableParallelism());
-  const batchSize = alignBatchSize(opts.batchSize ?? defaultBatchSize);
+  const block = feedBlockOf(c.monteCarlo.plan);
+  const batchSize = alignBatchSize(opts.batchSize ?? defaultBatchSize, block);
   if (opts.untilRelError !== undefined && opts.shard && opts.shard.count > 1)
     throw CaseError.single(
       '--until-rel-error',
       'cannot be combined with --shard (each shard would stop at its own count)',
     );
-  const { start, end } = shardRange(total, opts.shard);
+  const { start, end } = shardRange(total, block, opts.shard);
   const groups = kernelGroups();
   const specs = columnsOf(groups);
-  const sha = caseSha256(input);
+  const contentSha = caseContentSha256(input);
   const dir = opts.outDir;
   mkdirSync(dir, { recursive: true });
   const paths = {
@@ -151,7 +148,7 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
   const plannedChecks =
     opts.untilRelError === undefined
       ? [end]
-      : checkpoints(opts.firstCheckpoint ?? Math.max(1000, 10 * batchSize), end);
+      : checkpoints(opts.firstCheckpoint ?? Math.max(1000, 10 * batchSize), end, block);
 
   // --resume: check the earlier manifest, then copy its rows (and summary updates) first
   let done = 0;
@@ -162,7 +159,7 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
     throw CaseError.single('--resume', `expected an earlier run in ${dir}, found no run.json`);
   if (earlier) {
     const mismatch: string[] = [];
-    if (earlier.caseSha256 !== sha) mismatch.push('case file');
+    if (earlier.caseContentSha256 !== contentSha) mismatch.push('case (file or --set overrides)');
     if (String(earlier.seed) !== String(seed)) mismatch.push('seed');
     if (earlier.idStart !== start || earlier.idEnd !== end)
       mismatch.push('scenario range or shard');
@@ -199,7 +196,7 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
       for await (const rb of readRecordBatches(paths.scenarios)) {
         const b = toColumnBatch(rb, specs, paths.scenarios);
         await scenarioSink.write(encoder.encode(b));
-        feedBatch(sink, specs, b);
+        feedBatch(sink, specs, b, block);
         done += b.count;
         if (start + done === target) checkRule(); // the same looks as the original run
       }
@@ -207,7 +204,7 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
     }
 
     const { filename, execArgv } = workerFile();
-    const setup: WorkerSetup = { case: c, caseDir: dirname(input.path), seed, faults: opts.faults };
+    const setup: WorkerSetup = { case: c, caseDir: input.dir, seed, faults: opts.faults };
     const pool = new Piscina({
       filename,
       execArgv,
@@ -292,7 +289,7 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
               if (!b) break;
               ready.delete(b.firstId);
               await scenarioSink.write(encoder.encode(b));
-              feedBatch(sink, specs, b);
+              feedBatch(sink, specs, b, block);
               written += b.count;
               batchesWritten++;
               opts.onProgress?.(written, end - start);
@@ -324,7 +321,8 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
     tool: 'holdfast',
     toolVersion: toolVersion(),
     caseName: c.name,
-    caseSha256: sha,
+    caseSha256: input.sha256,
+    caseContentSha256: contentSha,
     seed,
     scenariosRequested: total,
     scenarioCount: written,
@@ -333,6 +331,7 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
     shard: opts.shard ?? null,
     workers,
     batchSize,
+    feedBlock: block,
     wallSeconds,
     scenariosPerSecond: (written - done) / Math.max(wallSeconds, 1e-9),
     status: complete ? 'complete' : 'partial',
@@ -354,6 +353,10 @@ export async function runAssessment(input: CaseForRun, opts: RunOptions): Promis
           },
     caution: screeningCaution,
   };
+  if (opts.parquet && failure === null) {
+    await copyArrowToParquet(paths.scenarios, join(dir, 'scenarios.parquet'));
+    if (sink) await copyArrowToParquet(paths.summary, join(dir, 'summary.parquet'));
+  }
   writeManifest(paths.manifest, manifest);
   if (failure !== null) {
     if (failure instanceof RunError || failure instanceof CaseError) throw failure;

@@ -1,9 +1,11 @@
 /** A small invented microgrid (made-up names and numbers) for the runner's tests. */
+
+import { createHash } from 'node:crypto';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import type { LoadedCase } from '../../src/case/load.js';
 import { type Case, type CaseInput, caseSchema } from '../../src/case/schema.js';
-import type { CaseForRun } from '../../src/run/run.js';
 
 export const inventedCaseInput: CaseInput = {
   name: 'Invented test island',
@@ -28,9 +30,11 @@ export function inventedCase(): Case {
 }
 
 /** The invented case as if loaded from a file in a fresh temporary folder. */
-export function inventedRunInput(): { input: CaseForRun; dir: string } {
+export function inventedRunInput(): { input: LoadedCase; dir: string } {
   const dir = mkdtempSync(join(tmpdir(), 'holdfast-run-'));
   const path = join(dir, 'invented.json');
-  writeFileSync(path, JSON.stringify(inventedCaseInput));
-  return { input: { case: inventedCase(), path }, dir };
+  const text = JSON.stringify(inventedCaseInput);
+  writeFileSync(path, text);
+  const sha256 = createHash('sha256').update(text).digest('hex');
+  return { input: { case: inventedCase(), path, dir, sha256, raw: inventedCaseInput }, dir };
 }
