@@ -1,0 +1,148 @@
+/**
+ * The partitions of the scenarios that "what drives the risk" conditions on: month, hour of
+ * day, battery state-of-charge band, which sources were out, and the size of the deficit at
+ * separation. Each is a partition (every scenario in exactly one stratum), which is what makes
+ * the stratified conditional probabilities add back, with their weight shares, to the overall
+ * estimate (law of total probability).
+ *
+ * Calendar: hour 0 = 1 January 00:00-01:00, a 365-day year (scenario.ts), months of
+ * 31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31 days.
+ */
+import type { ScenarioFrame } from './scenarioFrame.js';
+
+export interface Partition {
+  /** Driver name as written in drivers.arrow (`month`, `hour_of_day`, ...). */
+  driver: string;
+  /** Plain words for the table ("month", "hour of day"). */
+  label: string;
+  /** Stratum labels; code k labels stratum k. */
+  strata: string[];
+  /** Stratum code of each row of the frame. */
+  codes: Int32Array;
+}
+
+const monthDays = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31] as const;
+const monthNames = [
+  'January',
+  'February',
+  'March',
+  'April',
+  'May',
+  'June',
+  'July',
+  'August',
+  'September',
+  'October',
+  'November',
+  'December',
+] as const;
+
+/** First hour of each month, and 8760 at the end. */
+const monthStartHour: readonly number[] = (() => {
+  const starts = [0];
+  for (const d of monthDays) starts.push(starts[starts.length - 1]! + d * 24);
+  return starts;
+})();
+
+/** Month index 0-11 of an hour of the year 0-8759. */
+export function monthOfHour(hourOfYear: number): number {
+  let m = 0;
+  while (m < 11 && hourOfYear >= monthStartHour[m + 1]!) m++;
+  return m;
+}
+
+export function monthPartition(frame: ScenarioFrame): Partition | undefined {
+  const hour = frame.numeric('hour_of_year');
+  if (!hour) return undefined;
+  const codes = new Int32Array(frame.n);
+  for (let i = 0; i < frame.n; i++) codes[i] = monthOfHour(hour[i]!);
+  return { driver: 'month', label: 'month', strata: [...monthNames], codes };
+}
+
+export function hourOfDayPartition(frame: ScenarioFrame): Partition | undefined {
+  const hour = frame.numeric('hour_of_year');
+  if (!hour) return undefined;
+  const codes = new Int32Array(frame.n);
+  for (let i = 0; i < frame.n; i++) codes[i] = hour[i]! % 24;
+  const strata = Array.from(
+    { length: 24 },
+    (_, h) => `${String(h).padStart(2, '0')}:00-${String(h + 1).padStart(2, '0')}:00`,
+  );
+  return { driver: 'hour_of_day', label: 'hour of day', strata, codes };
+}
+
+/** State-of-charge bands of 20 points: 0-20 %, ..., 80-100 % (a full battery falls in the last). */
+export function socBandPartition(frame: ScenarioFrame): Partition | undefined {
+  const soc = frame.numeric('battery_soc');
+  if (!soc) return undefined;
+  const bands = 5;
+  const codes = new Int32Array(frame.n);
+  for (let i = 0; i < frame.n; i++)
+    codes[i] = Math.min(bands - 1, Math.max(0, Math.floor(soc[i]! * bands)));
+  const strata = Array.from(
+    { length: bands },
+    (_, k) => `state of charge ${(k * 100) / bands}-${((k + 1) * 100) / bands} %`,
+  );
+  return { driver: 'soc_band', label: 'battery state of charge', strata, codes };
+}
+
+/** A "nice" step (1, 2 or 5 times a power of ten) that cuts `range` into about `parts` bands. */
+export function niceStep(range: number, parts: number): number {
+  const raw = range / parts;
+  const power = 10 ** Math.floor(Math.log10(raw));
+  for (const m of [1, 2, 5]) if (m * power >= raw) return m * power;
+  return 10 * power;
+}
+
+/**
+ * Deficit bands: a surplus (deficit <= 0) stratum, then bands of a nice width cutting the
+ * largest deficit into about five (e.g. 0-200, 200-400, ... kW).
+ */
+export function deficitPartition(frame: ScenarioFrame): Partition | undefined {
+  const deficit = frame.numeric('deficit_kw');
+  if (!deficit) return undefined;
+  let max = 0;
+  for (let i = 0; i < frame.n; i++) if (deficit[i]! > max) max = deficit[i]!;
+  const step = max > 0 ? niceStep(max, 5) : 1;
+  const bands = max > 0 ? Math.ceil(max / step) : 0;
+  const strata = ['surplus or balanced (deficit <= 0 kW)'];
+  for (let k = 0; k < bands; k++) strata.push(`deficit ${k * step}-${(k + 1) * step} kW`);
+  const codes = new Int32Array(frame.n);
+  for (let i = 0; i < frame.n; i++) {
+    const d = deficit[i]!;
+    // a deficit exactly on a band edge belongs to the lower band: (k*step, (k+1)*step]
+    codes[i] = d <= 0 ? 0 : 1 + Math.min(bands - 1, Math.ceil(d / step) - 1);
+  }
+  return { driver: 'deficit_band', label: 'deficit at separation', strata, codes };
+}
+
+/**
+ * Which sources were out (forced outage, maintenance or failed start), from the `sources_out`
+ * column: source ids joined by '+', '' when none. Each distinct combination is a stratum.
+ */
+export function sourcesOutPartition(frame: ScenarioFrame): Partition | undefined {
+  const out = frame.text('sources_out');
+  if (!out) return undefined;
+  const index = new Map<string, number>();
+  const strata: string[] = [];
+  const codes = new Int32Array(frame.n);
+  // strata in order of first appearance after sorting the labels, so codes do not depend on row order
+  const labels = [...new Set(out)].sort();
+  for (const l of labels) {
+    index.set(l, strata.length);
+    strata.push(l === '' ? 'no source out' : `${l.split('+').join(' + ')} out`);
+  }
+  for (let i = 0; i < frame.n; i++) codes[i] = index.get(out[i]!)!;
+  return { driver: 'sources_out', label: 'sources out', strata, codes };
+}
+
+/** Every partition the frame has the columns for, in the order the tables show them. */
+export function driverPartitions(frame: ScenarioFrame): Partition[] {
+  return [
+    monthPartition(frame),
+    hourOfDayPartition(frame),
+    socBandPartition(frame),
+    sourcesOutPartition(frame),
+    deficitPartition(frame),
+  ].filter((p): p is Partition => p !== undefined);
+}
