@@ -28,6 +28,8 @@ export class OutageResult {
   minSoc = Number.NaN;
   /** Unit failures during the outage that triggered a frequency event. */
   contingencies = 0;
+  /** Contingency events the frequency engine reported as failed (diverged); their unit is lost. */
+  contingencyEventsFailed = 0;
   /** Critical load went unserved at some time (shutdown included). */
   criticalLost = false;
   /** The island shut down at some time, the first minute included. */
@@ -64,6 +66,7 @@ export class OutageResult {
     this.fuelCellKwh = 0;
     this.minSoc = Number.NaN;
     this.contingencies = 0;
+    this.contingencyEventsFailed = 0;
     this.criticalLost = false;
     this.shutdown = false;
     this.shutdownHour = -1;

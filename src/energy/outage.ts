@@ -67,19 +67,23 @@ export function simulateOutage(
   m.worstCause = '';
 
   let minSoc = Number.POSITIVE_INFINITY;
+  const eventFailed = ev.status === 'failed';
   for (let i = 0; i < n; i++) {
     const failed = sc.available[i] === 0 || sc.failsToStart[i] === 1 ? 1 : 0;
     m.failed[i] = failed;
-    m.running[i] = failed === 0 && ev.runningAtEnd[i] === 1 ? 1 : 0;
+    // A frequency event that failed numerically says nothing about who is online: keep the
+    // pre-separation commitment (the runner reports the failed event separately).
+    const online = eventFailed ? sc.running[i] === 1 : ev.runningAtEnd[i] === 1;
+    m.running[i] = failed === 0 && online ? 1 : 0;
     m.fuelLeft[i] = m.fuelStock[i]!;
     if (m.kind[i] === KIND_BATTERY) {
       const s = ev.socAtEnd[i]!;
-      m.soc[i] = Number.isFinite(s) ? s : sc.socFraction[i]!;
+      m.soc[i] = !eventFailed && Number.isFinite(s) ? s : sc.socFraction[i]!;
       if (failed === 0 && m.soc[i]! < minSoc) minSoc = m.soc[i]!;
     } else m.soc[i] = 0;
   }
   if (Number.isFinite(minSoc)) out.minSoc = minSoc;
-  for (let j = 0; j < m.loadCount; j++) m.loadCap[j] = ev.loadServedFraction[j]!;
+  for (let j = 0; j < m.loadCount; j++) m.loadCap[j] = eventFailed ? 1 : ev.loadServedFraction[j]!;
 
   // The first minute (the frequency event): the load shed at its end, or all load after a
   // shutdown, is counted unserved over the whole event (an upper bound of at most horizonS).
@@ -92,7 +96,9 @@ export function simulateOutage(
   }
   m.down = false;
   m.downSinceH = 0;
-  if (ev.shutdown) {
+  if (eventFailed) {
+    // Nothing known about the first minute: the balance starts from the pre-separation state.
+  } else if (ev.shutdown) {
     shutDown(m, out, 0, criticalKw);
     out.unservedKwh += loadKw * t0;
     out.unservedCriticalKwh += criticalKw * t0;
@@ -218,6 +224,11 @@ function processFailures(m: OutageModel, sc: Scenario, out: OutageResult, tH: nu
     m.running[k] = 0;
     const ev = m.hooks.runContingency(m.op);
     out.contingencies++;
+    if (ev.status === 'failed') {
+      // The event diverged: the unit is lost, nothing else is known to change.
+      out.contingencyEventsFailed++;
+      continue;
+    }
     recordContingency(m, ev, k, tH);
     if (ev.shutdown) {
       shutDown(m, out, tH, criticalDemandKw(m));
