@@ -13,12 +13,7 @@
  * protection settings and interconnection are decided under local codes by licensed engineers.
  */
 import { RunError } from '../errors.js';
-import {
-  failuresPerYear,
-  type Interval,
-  perYearInterval,
-  probabilityInYearInterval,
-} from '../stats/annualise.js';
+import { type Interval, perYearInterval, probabilityInYearInterval } from '../stats/annualise.js';
 import { ExactSum } from '../stats/exact-sum.js';
 import { weightedMeanInterval } from '../stats/mean.js';
 import { type ProportionMethod, weightedProportionInterval } from '../stats/proportion.js';
@@ -521,9 +516,4 @@ function components(v: unknown, what: string): ExactSum {
   if (!Array.isArray(v) || !v.every((x) => typeof x === 'number' && Number.isFinite(x)))
     throw new RunError(`summary state: ${what} must be a list of finite numbers`);
   return ExactSum.fromComponents(v as number[]);
-}
-
-/** The metric failures_per_year would have with probability p (for messages and tests). */
-export function failuresPerYearOf(opts: SummaryOptions, p: number): number {
-  return failuresPerYear(opts.islandingRatePerYear, p);
 }

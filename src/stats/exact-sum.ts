@@ -58,6 +58,11 @@ export class ExactSum {
     for (let j = 0; j < src.length; j++) this.add(src[j]!);
   }
 
+  /** Back to zero, keeping the storage. */
+  reset(): void {
+    this.size = 0;
+  }
+
   /** The exact sum rounded once to the nearest double (ties to even). */
   value(): number {
     const p = this.parts;
