@@ -7,15 +7,18 @@
  * Weighted estimators (weights w_i of the sampling plan, 1 for plain Monte Carlo):
  *   W_s = sum_{i in s} w_i,  p_s = sum_{i in s} w_i x_i / W_s,  q_s = W_s / W,
  * so sum_s q_s p_s = sum_i w_i x_i / W = p, the overall estimate (law of total probability):
- * the strata add back exactly, which the tests check. Intervals use the Kish effective sample
- * size n_eff = W_s^2 / sum w_i^2 and effective events p_s n_eff (Kish, Survey Sampling, 1965,
- * sec. 11.7, from memory), equal to the plain counts when all weights are 1.
+ * the strata add back exactly, which the tests check. Intervals are the stats module's default
+ * for a proportion (Wilson; Clopper-Pearson with fewer than 5 events, src/stats/proportion.ts)
+ * at the Kish effective sample size n_eff = W_s^2 / sum w_i^2 and effective events p_s n_eff
+ * (Kish, Survey Sampling, 1965, sec. 11.7, from memory), the plain counts when all weights are 1.
  *
  * The risk ratio compares a stratum with the rest of the scenarios (two disjoint samples), with
  * the Katz log interval (riskRatio.ts). Screening estimates: a high ratio points at conditions
  * worth a closer look, it is not a cause established.
  */
 import { RunError } from '../errors.js';
+import { twoSidedZ } from '../stats/normal.js';
+import { proportionInterval } from '../stats/proportion.js';
 import { katzRiskRatio } from './riskRatio.js';
 import type { ScenarioFrame } from './scenarioFrame.js';
 import { driverPartitions } from './strata.js';
@@ -51,15 +54,14 @@ export interface DriversResult {
   missing: string[];
 }
 
-/** An interval for a (possibly effective, fractional) count of events out of n trials. */
-export type ProportionInterval = (events: number, trials: number) => { low: number; high: number };
-
 export interface DriversOptions {
   confidenceLevel: number;
-  /** Two-sided standard normal quantile for the confidence level. */
-  z: number;
-  /** Interval for a single proportion (the stats module's Wilson score interval). */
-  interval: ProportionInterval;
+}
+
+/** The stats module's default interval (Wilson, Clopper-Pearson below 5 events) at effective counts. */
+function interval(events: number, trials: number, level: number): { low: number; high: number } {
+  if (!(trials > 0)) return { low: Number.NaN, high: Number.NaN };
+  return proportionInterval(Math.min(trials, Math.max(0, events)), trials, level);
 }
 
 function outcomeIndicator(frame: ScenarioFrame, outcome: DriverOutcome): Float64Array {
@@ -113,6 +115,7 @@ export function computeDrivers(frame: ScenarioFrame, opts: DriversOptions): Driv
   const missing = ['month', 'hour_of_day', 'soc_band', 'sources_out', 'deficit_band'].filter(
     (d) => !partitions.some((p) => p.driver === d),
   );
+  const z = twoSidedZ(opts.confidenceLevel);
   const weight = frame.weight;
   let wAll = 0;
   let w2All = 0;
@@ -133,8 +136,8 @@ export function computeDrivers(frame: ScenarioFrame, opts: DriversOptions): Driv
         if (s.count[k] === 0) continue;
         const inside = effective(s.w[k]!, s.w2[k]!, s.wx[k]!);
         const rest = effective(wAll - s.w[k]!, w2All - s.w2[k]!, wxAll - s.wx[k]!);
-        const ci = opts.interval(inside.x, inside.n);
-        const rr = katzRiskRatio(inside.x, inside.n, rest.x, rest.n, opts.z);
+        const ci = interval(inside.x, inside.n, opts.confidenceLevel);
+        const rr = katzRiskRatio(inside.x, inside.n, rest.x, rest.n, z);
         rows.push({
           outcome,
           driver: part.driver,
@@ -181,7 +184,7 @@ function causeRows(
     .sort((a, b) => b[1].wx - a[1].wx || (a[0] < b[0] ? -1 : 1))
     .map(([cause, e]) => {
       const p = e.wx / wAll;
-      const ci = opts.interval(p * nEff, nEff);
+      const ci = interval(p * nEff, nEff, opts.confidenceLevel);
       return {
         outcome: 'shutdown' as const,
         driver: 'shutdown_cause',
