@@ -46,6 +46,8 @@ export interface CaseSummary {
   peakKw: number;
   spinningAtSeparationKw: number;
   spinningReserveAtPeakKw: number;
+  /** Reserve at peak once standby gensets have started: dispatchable rating - peak. */
+  reserveAfterStandbyStartKw: number;
   batteryEnergyKwh: number;
   batteryReserveEnergyKwh: number;
   batteryHoursAtCriticalLoad: number;
@@ -183,6 +185,7 @@ export function summarizeCase(c: Case): CaseSummary {
     peakKw,
     spinningAtSeparationKw: spinning,
     spinningReserveAtPeakKw: spinning - peakKw,
+    reserveAfterStandbyStartKw: dispatchable - peakKw,
     batteryEnergyKwh: batteryEnergy,
     batteryReserveEnergyKwh: batteryReserve,
     batteryHoursAtCriticalLoad:
@@ -239,7 +242,7 @@ export function formatSummary(s: CaseSummary, file: string): string {
     `  peak load   ${kw(s.peakKw)}: critical ${kw(s.peakByTierKw.critical)}, essential ${kw(s.peakByTierKw.essential)}, sheddable ${kw(s.peakByTierKw.sheddable)} (sum of load peaks)`,
   );
   lines.push(
-    `  reserve     spinning at separation ${kw(s.spinningAtSeparationKw)}; at peak ${kw(s.spinningReserveAtPeakKw)} (${pct(s.peakKw > 0 ? s.spinningReserveAtPeakKw / s.peakKw : 0)} of peak; PV and wind excluded)`,
+    `  reserve     spinning at separation ${kw(s.spinningAtSeparationKw)}; at peak ${kw(s.spinningReserveAtPeakKw)} (${pct(s.peakKw > 0 ? s.spinningReserveAtPeakKw / s.peakKw : 0)} of peak); ${kw(s.reserveAfterStandbyStartKw)} once standby units run (PV and wind excluded)`,
   );
   lines.push(
     `  battery     ${s.batteryEnergyKwh} kWh; reserve above minimum ${num(s.batteryReserveEnergyKwh, 0)} kWh = ${num(s.batteryHoursAtCriticalLoad, 2)} h at critical peak`,
