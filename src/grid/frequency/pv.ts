@@ -1,0 +1,56 @@
+/**
+ * PV inverter: at maximum power point it cannot raise its output (no upward reserve); curtailed
+ * with headroom it can, up to the available power; over-frequency droop down.
+ *
+ * Frequency-watt characteristic, IEEE 1547-2018 clause 6.5.2.7 (REFERENCES.md 2.6), pu of rating:
+ *   f > f0 + db:  p_ref = max(0, p_0 - (df/f0 - db/f0) / k)
+ *   f < f0 - db:  p_ref = min(p_avail, p_0 + (-df/f0 - db/f0) / k)
+ *   otherwise     p_ref = p_0
+ * with db = 36 mHz and k = 5 % by default, and the open-loop response time t90 = 5 s realised as
+ * a first-order lag tau = t90 / ln 10:  tau dp/dt = p_ref - p.
+ * At MPPT p_avail = p_0 (the panel already gives all it can), so the min() removes any upward
+ * response: the tool's "PV has no upward reserve" assumption.
+ * Notation: db = overFrequencyDeadbandHz, k = overFrequencyDroopPu, t90 = responseTimeS.
+ * State slots: [p, -, -, energy].
+ */
+import { type Island, stateOffset } from './island.js';
+
+/** Frequency-watt reference; shared with wind for the over-frequency side. */
+export function frequencyWattReferencePu(
+  isl: Island,
+  i: number,
+  dwPu: number,
+  availablePu: number,
+): number {
+  const p0 = isl.dispatchPu[i]!;
+  const db = isl.overFrequencyDeadbandPu[i]!;
+  const gain = isl.overFrequencyGainPu[i]!;
+  if (dwPu > db) {
+    const p = p0 - gain * (dwPu - db);
+    return Math.max(p, 0);
+  }
+  if (dwPu < -db) {
+    const p = p0 + gain * (-db - dwPu);
+    return Math.min(p, availablePu);
+  }
+  return p0;
+}
+
+export function pvDerivatives(
+  isl: Island,
+  i: number,
+  x: Float64Array,
+  dx: Float64Array,
+  dwPu: number,
+): void {
+  const o = stateOffset(i);
+  const p0 = isl.dispatchPu[i]!;
+  // MPPT: nothing above the present output; curtailed: up to the available power.
+  const avail = isl.curtailed[i] === 1 ? Math.max(isl.availablePu[i]!, p0) : p0;
+  const ref = frequencyWattReferencePu(isl, i, dwPu, avail);
+  const p = x[o]!;
+  dx[o] = (ref - p) / isl.lagTimeS[i]!;
+  dx[o + 1] = 0;
+  dx[o + 2] = 0;
+  dx[o + 3] = p;
+}
