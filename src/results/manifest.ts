@@ -43,6 +43,7 @@ export interface RunManifest {
   confidenceLevel: number;
   failureDefinition: string;
   islandingRatePerYear: number;
+  nominalFrequencyHz: number;
   plan: string;
   columnGroups: ColumnGroup[];
   untilRelError: {

@@ -1,6 +1,7 @@
 /**
- * `summary.arrow` (CONTRACT.md): one row per metric with its estimate, interval, unit, the
- * scenarios behind it and the estimator; every field with `unit` and `description` metadata.
+ * The small per-metric tables: `summary.arrow` (CONTRACT.md: one row per metric with estimate,
+ * interval, unit, scenarios behind it and estimator) and `exceedance.arrow` (one row per
+ * quantity and threshold). Every field carries `unit` and `description` metadata.
  */
 import {
   type DataType,
@@ -16,68 +17,183 @@ import {
   Utf8,
   vectorFromArray,
 } from 'apache-arrow';
-import type { SummaryRow } from '../run/summary-feed.js';
+import type { ExceedanceRow } from './exceedance.js';
 import { writeFileAtomic } from './manifest.js';
+import type { SummaryRow } from './summary.js';
 
-const summaryFields: readonly [string, DataType, string, string][] = [
-  ['metric', new Utf8(), '1', 'metric name (see docs/runner.md and the README)'],
-  ['estimate', new Float64(), 'see unit column', 'point estimate'],
-  ['ci_low', new Float64(), 'see unit column', 'lower confidence bound (level in run.json)'],
-  ['ci_high', new Float64(), 'see unit column', 'upper confidence bound (level in run.json)'],
-  ['unit', new Utf8(), '1', 'unit of estimate, ci_low and ci_high'],
-  ['n_scenarios', new Int64(), '1', 'scenarios behind the estimate'],
-  ['method', new Utf8(), '1', 'estimator and interval method'],
-];
-
-function field(name: string, type: DataType, unit: string, description: string): Field {
-  return new Field(
-    name,
-    type,
-    false,
-    new Map([
-      ['unit', unit],
-      ['description', description],
-    ]),
-  );
+/** One column of a small table: how to read it from a row object. */
+export interface SmallColumn<R> {
+  name: string;
+  type: 'utf8' | 'float64' | 'int64';
+  unit: string;
+  description: string;
+  value: (row: R) => string | number;
 }
 
-export function summaryTable(rows: readonly SummaryRow[]): Table {
-  const schema = new Schema(summaryFields.map(([n, t, u, d]) => field(n, t, u, d)));
-  const columns = {
-    metric: vectorFromArray(
-      rows.map((r) => r.metric),
-      new Utf8(),
-    ),
-    estimate: vectorFromArray(
-      rows.map((r) => r.estimate),
-      new Float64(),
-    ),
-    ci_low: vectorFromArray(
-      rows.map((r) => r.ciLow),
-      new Float64(),
-    ),
-    ci_high: vectorFromArray(
-      rows.map((r) => r.ciHigh),
-      new Float64(),
-    ),
-    unit: vectorFromArray(
-      rows.map((r) => r.unit),
-      new Utf8(),
-    ),
-    n_scenarios: vectorFromArray(
-      rows.map((r) => BigInt(r.nScenarios)),
-      new Int64(),
-    ),
-    method: vectorFromArray(
-      rows.map((r) => r.method),
-      new Utf8(),
-    ),
-  };
-  const children = schema.fields.map((f) => columns[f.name as keyof typeof columns].data[0]!);
-  const struct = makeData({ type: new Struct(schema.fields), length: rows.length, children });
+const arrowTypes: Record<SmallColumn<unknown>['type'], () => DataType> = {
+  utf8: () => new Utf8(),
+  float64: () => new Float64(),
+  int64: () => new Int64(),
+};
+
+export function smallTable<R>(columns: readonly SmallColumn<R>[], rows: readonly R[]): Table {
+  const fields = columns.map(
+    (c) =>
+      new Field(
+        c.name,
+        arrowTypes[c.type](),
+        false,
+        new Map([
+          ['unit', c.unit],
+          ['description', c.description],
+        ]),
+      ),
+  );
+  const schema = new Schema(fields);
+  const children = columns.map((c, k) => {
+    const values = rows.map((r) => {
+      const v = c.value(r);
+      return c.type === 'int64' ? BigInt(v) : v;
+    });
+    return vectorFromArray(values as never, fields[k]!.type).data[0]!;
+  });
+  const struct = makeData({ type: new Struct(fields), length: rows.length, children });
   return new Table([new RecordBatch(schema, struct)]);
 }
 
+export const summaryColumns: readonly SmallColumn<SummaryRow>[] = [
+  {
+    name: 'metric',
+    type: 'utf8',
+    unit: '1',
+    description: 'metric name (docs/statistics.md)',
+    value: (r) => r.metric,
+  },
+  {
+    name: 'estimate',
+    type: 'float64',
+    unit: 'see unit column',
+    description: 'point estimate',
+    value: (r) => r.estimate,
+  },
+  {
+    name: 'ci_low',
+    type: 'float64',
+    unit: 'see unit column',
+    description: 'lower confidence bound (level in run.json)',
+    value: (r) => r.ciLow,
+  },
+  {
+    name: 'ci_high',
+    type: 'float64',
+    unit: 'see unit column',
+    description: 'upper confidence bound (level in run.json)',
+    value: (r) => r.ciHigh,
+  },
+  {
+    name: 'unit',
+    type: 'utf8',
+    unit: '1',
+    description: 'unit of estimate, ci_low and ci_high',
+    value: (r) => r.unit,
+  },
+  {
+    name: 'n_scenarios',
+    type: 'int64',
+    unit: '1',
+    description: 'scenarios behind the estimate',
+    value: (r) => r.nScenarios,
+  },
+  {
+    name: 'method',
+    type: 'utf8',
+    unit: '1',
+    description: 'estimator and interval method',
+    value: (r) => r.method,
+  },
+];
+
+export const exceedanceColumns: readonly SmallColumn<ExceedanceRow>[] = [
+  {
+    name: 'quantity',
+    type: 'utf8',
+    unit: '1',
+    description: 'scenarios.arrow column the curve is about',
+    value: (r) => r.quantity,
+  },
+  {
+    name: 'threshold',
+    type: 'float64',
+    unit: 'see unit column',
+    description: 'threshold crossed',
+    value: (r) => r.thresholdValue,
+  },
+  {
+    name: 'unit',
+    type: 'utf8',
+    unit: '1',
+    description: 'unit of the threshold',
+    value: (r) => r.unit,
+  },
+  {
+    name: 'direction',
+    type: 'utf8',
+    unit: '1',
+    description: "'below' (value < threshold) or 'above' (value > threshold)",
+    value: (r) => r.direction,
+  },
+  {
+    name: 'probability',
+    type: 'float64',
+    unit: '1',
+    description: 'probability per islanding event of crossing the threshold',
+    value: (r) => r.probability,
+  },
+  {
+    name: 'ci_low',
+    type: 'float64',
+    unit: '1',
+    description: 'lower confidence bound of the probability',
+    value: (r) => r.ciLow,
+  },
+  {
+    name: 'ci_high',
+    type: 'float64',
+    unit: '1',
+    description: 'upper confidence bound of the probability',
+    value: (r) => r.ciHigh,
+  },
+  {
+    name: 'rate_per_year',
+    type: 'float64',
+    unit: '1/yr',
+    description: 'yearly rate of crossings (islanding rate times probability)',
+    value: (r) => r.ratePerYear,
+  },
+  {
+    name: 'rate_ci_low',
+    type: 'float64',
+    unit: '1/yr',
+    description: 'lower confidence bound of the yearly rate',
+    value: (r) => r.rateCiLow,
+  },
+  {
+    name: 'rate_ci_high',
+    type: 'float64',
+    unit: '1/yr',
+    description: 'upper confidence bound of the yearly rate',
+    value: (r) => r.rateCiHigh,
+  },
+];
+
+export function writeSmallTable<R>(
+  path: string,
+  columns: readonly SmallColumn<R>[],
+  rows: readonly R[],
+): void {
+  writeFileAtomic(path, tableToIPC(smallTable(columns, rows), 'file'));
+}
+
 export async function writeSummaryArrow(path: string, rows: readonly SummaryRow[]): Promise<void> {
-  writeFileAtomic(path, tableToIPC(summaryTable(rows), 'file'));
+  writeSmallTable(path, summaryColumns, rows);
 }

@@ -12,14 +12,14 @@ import { readRecordBatches, toColumnBatch } from '../results/arrow-reader.js';
 import { ArrowFileSink, BatchEncoder } from '../results/arrow-writer.js';
 import { columnsOf } from '../results/columns.js';
 import { type RunManifest, readManifest, writeManifest } from '../results/manifest.js';
-import { writeSummaryArrow } from '../results/summary-arrow.js';
+import { exceedanceColumns, writeSmallTable, writeSummaryArrow } from '../results/summary-arrow.js';
 import { feedBatch } from './run.js';
 import { createSummary, type SummaryRow } from './summary-feed.js';
 
 export interface MergeOutcome {
   status: 'complete' | 'partial';
   summary: SummaryRow[];
-  paths: { dir: string; scenarios: string; summary: string | null; manifest: string };
+  paths: { dir: string; scenarios: string; summary: string; exceedance: string; manifest: string };
   manifest: RunManifest;
 }
 
@@ -45,6 +45,7 @@ export async function mergeShards(
     differs('columnGroups', first.columnGroups.join(), m.columnGroups.join());
     differs('confidenceLevel', first.confidenceLevel, m.confidenceLevel);
     differs('feedBlock', first.feedBlock, m.feedBlock);
+    differs('nominalFrequencyHz', first.nominalFrequencyHz, m.nominalFrequencyHz);
   }
   shards.sort((a, b) => a.m.idStart - b.m.idStart);
   for (let k = 1; k < shards.length; k++) {
@@ -69,6 +70,7 @@ export async function mergeShards(
     scenarios: join(outDir, 'scenarios.arrow'),
     summary: join(outDir, 'summary.arrow'),
     manifest: join(outDir, 'run.json'),
+    exceedance: join(outDir, 'exceedance.arrow'),
   };
   const sink = createSummary(first);
   const out = new ArrowFileSink(paths.scenarios, encoder.schema);
@@ -93,8 +95,9 @@ export async function mergeShards(
     throw err;
   }
   await out.close();
-  const summary = sink ? sink.rows() : [];
-  if (sink) await writeSummaryArrow(paths.summary, summary);
+  const summary = sink.rows();
+  await writeSummaryArrow(paths.summary, summary);
+  writeSmallTable(paths.exceedance, exceedanceColumns, sink.exceedanceRows());
   const wallSeconds = shards.reduce((s, x) => s + x.m.wallSeconds, 0);
   const complete =
     contiguous &&
@@ -116,7 +119,7 @@ export async function mergeShards(
   return {
     status: manifest.status,
     summary,
-    paths: { ...paths, summary: sink ? paths.summary : null },
+    paths,
     manifest,
   };
 }

@@ -9,7 +9,7 @@
  * prefix of rows and marks run.json partial; `resume` continues from there.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -27,7 +27,7 @@ import {
   writeManifest,
 } from '../results/manifest.js';
 import { copyArrowToParquet } from '../results/parquet.js';
-import { writeSummaryArrow } from '../results/summary-arrow.js';
+import { exceedanceColumns, writeSmallTable, writeSummaryArrow } from '../results/summary-arrow.js';
 import { type KernelFaults, kernelGroups } from './kernel.js';
 import {
   alignBatchSize,
@@ -81,7 +81,7 @@ export interface RunOutcome {
   /** 'interrupted' when stopped by a signal or stopAfterBatches. */
   stopReason: string | null;
   summary: SummaryRow[];
-  paths: { dir: string; scenarios: string; summary: string | null; manifest: string };
+  paths: { dir: string; scenarios: string; summary: string; exceedance: string; manifest: string };
   manifest: RunManifest;
 }
 
@@ -106,12 +106,11 @@ export function caseContentSha256(loaded: LoadedCase): string {
 
 /** Feeds a batch to the summary in feed blocks (batches start on the block grid). */
 export function feedBatch(
-  sink: SummarySink | undefined,
+  sink: SummarySink,
   specs: readonly ColumnSpec[],
   b: ColumnBatch,
   block: number,
 ) {
-  if (!sink) return;
   for (let from = 0; from < b.count; from += block)
     feedSummary(sink, specs, b, from, Math.min(block, b.count - from));
 }
@@ -141,6 +140,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     scenarios: join(dir, 'scenarios.arrow'),
     summary: join(dir, 'summary.arrow'),
     manifest: join(dir, 'run.json'),
+    exceedance: join(dir, 'exceedance.arrow'),
   };
 
   const sink = createSummary(summarySettings(c));
@@ -181,7 +181,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   const checkRule = (): void => {
     // called when the rows written reach `target`, a checkpoint fixed before the run: the only
     // moments the stopping rule looks (untilRelError excludes shards, so ids start at 0)
-    if (opts.untilRelError === undefined || !sink || satisfied) return;
+    if (opts.untilRelError === undefined || satisfied) return;
     checks++;
     const h = sink.halfWidth(headlineMetric(sink));
     if (h.estimate > 0 && h.halfWidth <= opts.untilRelError * h.estimate) satisfied = true;
@@ -314,9 +314,9 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   // a failure after valid rows still leaves a readable, partial file
   await scenarioSink.close();
   const wallSeconds = Number(process.hrtime.bigint() - started) / 1e9;
-  const summary = sink ? sink.rows() : [];
-  if (sink) await writeSummaryArrow(paths.summary, summary);
-  else rmSync(paths.summary, { force: true });
+  const summary = sink.rows();
+  await writeSummaryArrow(paths.summary, summary);
+  writeSmallTable(paths.exceedance, exceedanceColumns, sink.exceedanceRows());
   const manifest: RunManifest = {
     tool: 'holdfast',
     toolVersion: toolVersion(),
@@ -340,6 +340,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     confidenceLevel: c.monteCarlo.confidenceLevel,
     failureDefinition: c.monteCarlo.failureDefinition,
     islandingRatePerYear: c.events.islandingRatePerYear,
+    nominalFrequencyHz: c.system.frequencyHz,
     plan: c.monteCarlo.plan,
     columnGroups: [...groups],
     untilRelError:
@@ -347,7 +348,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
         ? null
         : {
             target: opts.untilRelError,
-            headlineMetric: sink ? headlineMetric(sink) : 'p_shutdown',
+            headlineMetric: headlineMetric(sink),
             checks,
             checkpoints: plannedChecks,
           },
@@ -355,7 +356,8 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   };
   if (opts.parquet && failure === null) {
     await copyArrowToParquet(paths.scenarios, join(dir, 'scenarios.parquet'));
-    if (sink) await copyArrowToParquet(paths.summary, join(dir, 'summary.parquet'));
+    await copyArrowToParquet(paths.summary, join(dir, 'summary.parquet'));
+    await copyArrowToParquet(paths.exceedance, join(dir, 'exceedance.parquet'));
   }
   writeManifest(paths.manifest, manifest);
   if (failure !== null) {
@@ -366,7 +368,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     status: manifest.status,
     stopReason: manifest.stopReason,
     summary,
-    paths: { ...paths, summary: sink ? paths.summary : null },
+    paths,
     manifest,
   };
 }

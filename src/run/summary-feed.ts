@@ -5,22 +5,48 @@
  */
 import type { Case } from '../case/schema.js';
 import type { ColumnBatch, ColumnSpec } from '../results/columns.js';
+import { ExceedanceAccumulator, type ExceedanceRow } from '../results/exceedance.js';
+import { type FailureDefinition, SummaryAccumulator, type SummaryRow } from '../results/summary.js';
 
-export interface SummaryRow {
-  metric: string;
-  estimate: number;
-  ciLow: number;
-  ciHigh: number;
-  unit: string;
-  nScenarios: number;
-  method: string;
-}
+export type { SummaryRow };
 
 /** What the runner needs of a summary accumulator. */
 export interface SummarySink {
   addBatch(columns: Record<string, ArrayLike<number>>, count: number): void;
   rows(): SummaryRow[];
   halfWidth(metric: string): { estimate: number; halfWidth: number };
+  exceedanceRows(): ExceedanceRow[];
+}
+
+/** The summary metrics and the exceedance curves of one run, fed together. */
+class RunSummary implements SummarySink {
+  private readonly summary: SummaryAccumulator;
+  private readonly exceedance: ExceedanceAccumulator;
+  constructor(s: SummarySettings) {
+    this.summary = new SummaryAccumulator({
+      confidenceLevel: s.confidenceLevel,
+      islandingRatePerYear: s.islandingRatePerYear,
+      failureDefinition: s.failureDefinition as FailureDefinition,
+    });
+    this.exceedance = new ExceedanceAccumulator({
+      confidenceLevel: s.confidenceLevel,
+      islandingRatePerYear: s.islandingRatePerYear,
+      nominalFrequencyHz: s.nominalFrequencyHz,
+    });
+  }
+  addBatch(columns: Record<string, ArrayLike<number>>, count: number): void {
+    this.summary.addBatch(columns, count);
+    this.exceedance.addBatch(columns, count);
+  }
+  rows(): SummaryRow[] {
+    return this.summary.rows();
+  }
+  halfWidth(metric: string): { estimate: number; halfWidth: number } {
+    return this.summary.halfWidth(metric);
+  }
+  exceedanceRows(): ExceedanceRow[] {
+    return this.exceedance.rows();
+  }
 }
 
 /** What the summary needs to know of the case (also kept in run.json, for merge). */
@@ -28,6 +54,7 @@ export interface SummarySettings {
   confidenceLevel: number;
   islandingRatePerYear: number;
   failureDefinition: string;
+  nominalFrequencyHz: number;
 }
 
 export function summarySettings(c: Case): SummarySettings {
@@ -35,13 +62,13 @@ export function summarySettings(c: Case): SummarySettings {
     confidenceLevel: c.monteCarlo.confidenceLevel,
     islandingRatePerYear: c.events.islandingRatePerYear,
     failureDefinition: c.monteCarlo.failureDefinition,
+    nominalFrequencyHz: c.system.frequencyHz,
   };
 }
 
-/** The accumulator for this build, or undefined while the stats module has not landed. */
-export function createSummary(settings: SummarySettings): SummarySink | undefined {
-  void settings;
-  return undefined;
+/** The accumulators of the stats module (exact sums: order and grouping do not matter). */
+export function createSummary(settings: SummarySettings): SummarySink {
+  return new RunSummary(settings);
 }
 
 /** Feeds rows [from, from + count) of a batch to the summary (numeric columns only). */
