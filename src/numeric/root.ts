@@ -2,8 +2,8 @@
  * Bracketed scalar root finding by the Illinois variant of regula falsi.
  *
  * Given g(a) and g(b) of opposite sign (g(a) may be 0), the secant point
- * c = b - g(b)(b - a)/(g(b) - g(a)) replaces the end point whose value has the same sign; the
- * value stored at the end that is kept is halved (the Illinois modification), which restores
+ * c = b - g(b)(b - a)/(g(b) - g(a)) replaces the end point whose value has the same sign; when the same end
+ * is replaced twice in a row, the value stored at the other end is halved (the Illinois modification), which restores
  * superlinear convergence (order ~1.44). A secant point outside the bracket falls back to bisection.
  * Source: M. Dowell and P. Jarratt, "A modified regula falsi method for computing the root of an
  * equation", BIT 11:168-174, 1971.
@@ -36,19 +36,22 @@ export function illinoisRoot(
   let xb = b;
   let ga = fa;
   let gb = fb;
+  let lastSide = 0;
   for (let it = 0; it < maxIterations && Math.abs(xb - xa) > xTol; it++) {
     let c = xb - (gb * (xb - xa)) / (gb - ga);
     if (!(c > Math.min(xa, xb) && c < Math.max(xa, xb))) c = 0.5 * (xa + xb);
     const fc = f.value(c);
     if (fc * signB > 0) {
-      // c is on b's side: b moves, a is kept and its stored value halved (Illinois).
+      // c is on b's side. If b's side moved last time too, a is stuck: halve its value (Illinois).
       xb = c;
       gb = fc;
-      ga *= 0.5;
+      if (lastSide === 1) ga *= 0.5;
+      lastSide = 1;
     } else {
       xa = c;
       ga = fc;
-      gb *= 0.5;
+      if (lastSide === -1) gb *= 0.5;
+      lastSide = -1;
     }
   }
   return xb;
