@@ -94,6 +94,8 @@ export class OutageModel {
   readonly gridForming: Uint8Array;
   readonly loadTier: Uint8Array;
   readonly hasBattery: boolean;
+  /** Smallest energy the balance residual is measured against, kWh (see outage.ts). */
+  readonly balanceFloorKwh: number;
   /** monteCarlo.energyStepH. */
   readonly stepH: number;
   /** The frequency event's horizon, h (where the energy balance starts). */
@@ -214,6 +216,9 @@ export class OutageModel {
     });
     if (problems.length > 0) throw new CaseError(problems);
     this.hasBattery = hasBattery;
+    let storageKwh = 0;
+    for (let i = 0; i < n; i++) storageKwh += this.energyKwh[i]!;
+    this.balanceFloorKwh = 1e-3 + 1e-6 * storageKwh;
     this.loadTier = new Uint8Array(nl);
     c.loads.forEach((l, j) => {
       this.loadTier[j] =

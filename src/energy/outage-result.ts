@@ -12,6 +12,8 @@ export class OutageResult {
   outageH = 0;
   /** Hours the island kept its critical load: the time of the first loss of critical load, or outageH. */
   survivedH = 0;
+  /** Energy served to the loads over the outage, kWh (served + unserved = demand). */
+  servedKwh = 0;
   /** Energy demanded but not served over the outage, all tiers, kWh. */
   unservedKwh = 0;
   /** Of which critical load, kWh. */
@@ -58,6 +60,7 @@ export class OutageResult {
   reset(): void {
     this.outageH = 0;
     this.survivedH = 0;
+    this.servedKwh = 0;
     this.unservedKwh = 0;
     this.unservedCriticalKwh = 0;
     this.lolH = 0;

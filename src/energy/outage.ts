@@ -9,7 +9,9 @@
  *   sources  = (PV + wind + gensets + fuel cells) * h + sum(E_i * max(0, -dSoC_i))
  *   sinks    = served * h + sum(E_i * max(0, dSoC_i)) + (curtailed + dumped) * h + losses
  *   losses   = sum(P_dis * h * (1/eta_d - 1)) + sum(P_ch * h * (1 - eta_c))
- * and |sources - sinks| / sources is recorded (energyBalanceError); it must stay below 1e-9.
+ * and |sources - sinks| / max(sources, sinks, floor) is recorded (energyBalanceError); it must
+ * stay below 1e-9. The floor, 1 Wh + 1e-6 of the installed storage energy, keeps the round-off of
+ * a state of charge (about 2e-16 * E) from counting when a segment's flows are practically nil.
  *
  * Shutdown: when no grid-forming source is left (dispatch.ts) or a contingency's frequency event
  * ends in shutdown. Restart only if system.blackStartAllowed, blackStartDelayH after the shutdown
@@ -98,6 +100,7 @@ export function simulateOutage(
   m.downSinceH = 0;
   if (eventFailed) {
     // Nothing known about the first minute: the balance starts from the pre-separation state.
+    out.servedKwh += loadKw * t0;
   } else if (ev.shutdown) {
     shutDown(m, out, 0, criticalKw);
     out.unservedKwh += loadKw * t0;
@@ -106,6 +109,7 @@ export function simulateOutage(
   } else {
     const shedKw = ev.shedKwByTier[0]! + ev.shedKwByTier[1]! + ev.shedKwByTier[2]!;
     out.unservedKwh += shedKw * t0;
+    out.servedKwh += (loadKw - shedKw) * t0;
     out.unservedCriticalKwh += ev.shedKwByTier[TIER_CRITICAL]! * t0;
     if (shedKw > SHED_REL_TOL * loadKw) out.lolH += t0;
     let criticalCut = ev.shedKwByTier[TIER_CRITICAL]! > SHED_REL_TOL * criticalKw;
@@ -123,8 +127,11 @@ export function simulateOutage(
     const k = Math.floor(t / stepH + TIME_EPS_H);
     let stepEnd = (k + 1) * stepH;
     if (stepEnd - t <= TIME_EPS_H) stepEnd += stepH;
-    if (stepEnd > outageH) stepEnd = outageH;
+    // Steps also end on the hour, where the conditions change (a step that does not divide an
+    // hour, e.g. 0.3 h, is cut there).
     const hourIndex = Math.floor(t + TIME_EPS_H);
+    if (stepEnd > hourIndex + 1) stepEnd = hourIndex + 1;
+    if (stepEnd > outageH) stepEnd = outageH;
     if (hourIndex !== hourLoaded) {
       loadConditions(m, sc, hourIndex);
       hourLoaded = hourIndex;
@@ -326,7 +333,7 @@ function advanceSegment(
   }
   const h = segEnd - tH;
 
-  let sourcesKwh = (f.renewableKw - f.curtailKw + f.gensetKw + f.fuelCellKw) * h;
+  let sourcesKwh = (f.renewableKw + f.gensetKw + f.fuelCellKw) * h;
   let storedKwh = 0;
   let lossKwh = 0;
   for (let i = 0; i < m.sourceCount; i++) {
@@ -364,15 +371,14 @@ function advanceSegment(
   const servedKwh = (f.demandKw - f.shedKw) * h;
   const spilledKwh = (f.curtailKw + f.dumpKw) * h;
   const sinksKwh = servedKwh + storedKwh + spilledKwh + lossKwh;
-  const scaleKwh = Math.max(sourcesKwh, sinksKwh);
-  if (scaleKwh > 0) {
-    const residual = Math.abs(sourcesKwh - sinksKwh) / scaleKwh;
-    if (residual > out.energyBalanceError) out.energyBalanceError = residual;
-  }
+  const scaleKwh = Math.max(sourcesKwh, sinksKwh, m.balanceFloorKwh);
+  const residual = Math.abs(sourcesKwh - sinksKwh) / scaleKwh;
+  if (residual > out.energyBalanceError) out.energyBalanceError = residual;
   out.curtailedKwh += spilledKwh;
   out.storageLossKwh += lossKwh;
   const unservedKw = f.shedKw + f.cappedKw;
   const critUnservedKw = m.tierShedKw[TIER_CRITICAL]! + m.tierCappedKw[TIER_CRITICAL]!;
+  out.servedKwh += servedKwh;
   out.unservedKwh += unservedKw * h;
   out.unservedCriticalKwh += critUnservedKw * h;
   if (unservedKw > SHED_REL_TOL * (f.demandKw + f.cappedKw)) out.lolH += h;
