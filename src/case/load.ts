@@ -10,6 +10,7 @@
  * nesting-depth limit.
  */
 import { createHash } from 'node:crypto';
+import { existsSync, statSync } from 'node:fs';
 import { readFile, stat } from 'node:fs/promises';
 import { dirname, extname, resolve } from 'node:path';
 import YAML from 'yaml';
@@ -132,7 +133,7 @@ export function parseCaseText(text: string, path: string): unknown {
       throw new CaseError(
         trouble.slice(0, 20).map((e) => ({
           path: `${path}:${e.linePos?.[0]?.line ?? '?'}:${e.linePos?.[0]?.col ?? '?'}`,
-          message: `expected valid YAML, got ${e.message.split('\n')[0]}`,
+          message: `expected valid YAML, got ${(e.message.split('\n')[0] ?? '').replace(/ at line \d+, column \d+:?$/, '')}`,
         })),
       );
     }
@@ -178,6 +179,14 @@ function profileProblems(c: Case, dir: string): CaseProblem[] {
   const cache: CsvCache = new Map();
   const problems: CaseProblem[] = [];
   for (const ref of refs) {
+    const full = resolve(dir, ref.file);
+    if (!existsSync(full) || !statSync(full).isFile()) {
+      problems.push({
+        path: `${ref.path}/file`,
+        message: `expected a CSV file next to the case (relative to ${dir}), got ${JSON.stringify(ref.file)}, which ${existsSync(full) ? 'is not a file' : 'does not exist'}`,
+      });
+      continue;
+    }
     try {
       readCsvProfile(ref, dir, cache);
     } catch (err) {
@@ -188,12 +197,17 @@ function profileProblems(c: Case, dir: string): CaseProblem[] {
   return problems;
 }
 
-/** Reads, parses, overrides and validates a case file. Throws CaseError for every user mistake. */
+/**
+ * Reads, parses, overrides and validates a case file. Throws CaseError for every user mistake;
+ * messages name the file as given. A relative `path` is resolved against `options.cwd`
+ * (default: the process's working directory).
+ */
 export async function loadCase(
   path: string,
   overrides: readonly string[] = [],
+  options: { cwd?: string } = {},
 ): Promise<LoadedCase> {
-  const full = resolve(path);
+  const full = resolve(options.cwd ?? process.cwd(), path);
   const info = await stat(full).catch((err: NodeJS.ErrnoException) => err);
   if (info instanceof Error) {
     const why =

@@ -145,7 +145,7 @@ function gridForming(c: Case, out: Problems) {
     out.push({
       path: '/sources',
       message:
-        'expected a grid-forming battery: no genset runs at separation (all standby), so the island has no inertia until one starts; got none',
+        'expected a grid-forming battery: no genset runs at separation (all standby), so the island has no inertia until one starts, got none',
     });
 }
 

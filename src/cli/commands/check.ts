@@ -2,7 +2,6 @@
  * `holdfast check CASE`: validates a case file (with `--set` overrides) and prints the one-screen
  * summary, or every problem on stderr with exit 2 (the thrown CaseError, mapped in exit.ts).
  */
-import { resolve } from 'node:path';
 import { loadCase } from '../../case/load.js';
 import { formatSummary, summarizeCase } from '../../case/summary.js';
 import { exitCode } from '../exit.js';
@@ -23,7 +22,7 @@ export const addCheckCommand: AddCommand = (program, frame) => {
   cmd.action(
     frame.action(async ([casePath], options, io) => {
       const file = casePath ?? '';
-      const loaded = await loadCase(resolve(io.cwd, file), options.set);
+      const loaded = await loadCase(file, options.set, { cwd: io.cwd });
       const summary = summarizeCase(loaded.case);
       if (options.json)
         io.stdout(
