@@ -35,7 +35,7 @@ import {
   pairedMeanDifference,
   scaleTableToEffectiveSize,
 } from '../stats/paired.js';
-import { type OutcomeDefinition, outcomeDefinitions } from './outcomes.js';
+import { type OutcomeContext, type OutcomeDefinition, outcomeDefinitions } from './outcomes.js';
 import { type Pairing, pairScenarios, type ScenarioFrame } from './scenarioFrame.js';
 
 /** One summary row as the comparison reads it (summary.arrow, camel case). */
@@ -68,6 +68,9 @@ export interface CompareInput {
   /** The summary rows of each run: the metrics to compare and the check of the outcomes. */
   baseSummary: readonly SummaryLike[];
   variantSummary: readonly SummaryLike[];
+  /** monteCarlo.failureDefinition of each case. */
+  baseFailureDefinition: OutcomeContext['failureDefinition'];
+  variantFailureDefinition: OutcomeContext['failureDefinition'];
   /** events.islandingRatePerYear of each case. */
   baseRatePerYear: number;
   variantRatePerYear: number;
@@ -90,8 +93,9 @@ function pairedValues(
   def: OutcomeDefinition,
   frame: ScenarioFrame,
   rows: Int32Array,
+  ctx: OutcomeContext,
 ): Float64Array | undefined {
-  const values = def.values(frame);
+  const values = def.values(frame, ctx);
   if (!values) return undefined;
   const out = new Float64Array(rows.length);
   for (let k = 0; k < rows.length; k++) out[k] = values[rows[k]!]!;
@@ -173,11 +177,15 @@ function compareMetric(
   input: CompareInput,
   pairing: Pairing,
 ): ComparisonRow | undefined {
-  const v = pairedValues(def, input.variant, pairing.variantRow);
-  const b = pairedValues(def, input.base, pairing.baseRow);
+  const v = pairedValues(def, input.variant, pairing.variantRow, {
+    failureDefinition: input.variantFailureDefinition,
+  });
+  const b = pairedValues(def, input.base, pairing.baseRow, {
+    failureDefinition: input.baseFailureDefinition,
+  });
   if (!v || !b) return undefined;
   const level = input.confidenceLevel;
-  const head = { metric: def.metric, label: def.label, unit: def.unit, kind: def.kind };
+  const head = { metric: def.metric, label: def.label, unit: '', kind: def.kind };
   const lambdaB = input.baseRatePerYear;
   const lambdaV = input.variantRatePerYear;
   if (input.identicalDesigns) {
@@ -288,7 +296,7 @@ export function compareDesigns(input: CompareInput): ComparisonResult {
     const def = outcomeDefinitions.find((d) => d.metric === sb.metric);
     const row = def ? compareMetric(def, input, pairing) : undefined;
     if (row && agrees(row.base, sb.estimate) && agrees(row.variant, sv.estimate)) {
-      rows.push(row);
+      rows.push({ ...row, unit: sb.unit });
       continue;
     }
     const reason = !def

@@ -7,10 +7,11 @@
  *   eue_kwh_per_year   = lambda * E[unserved_kwh]     (expected unserved energy per year)
  * with lambda = events.islandingRatePerYear of the case, treated as known.
  *
- * Indicators read the contract columns of scenarios.arrow (CONTRACT.md). Where a summary metric
- * depends on case limits that the scenario table does not carry, the indicator column written by
- * the runner is used (`frequency_violation`, `failure`); a metric whose inputs are absent from the
- * table is left out of the comparison (listed in `missingOutcomes`), never guessed. The comparison
+ * Indicators read the columns of scenarios.arrow (CONTRACT.md, src/results/columns.ts) exactly
+ * as the summary does (src/results/summary.ts): shed_kw > 0, shutdown, frequency_violation,
+ * voltage_violation, critical_lost; means of shed_kw, unserved_kwh, unserved_critical_kwh,
+ * lol_h. A metric whose inputs are absent from the table gets no paired interval, never a
+ * guessed one. The comparison
  * checks each per-design estimate built here against summary.arrow, so a definition that drifts
  * from the summary's is caught (comparison.ts).
  */
@@ -18,15 +19,19 @@ import type { ScenarioFrame } from './scenarioFrame.js';
 
 export type OutcomeKind = 'proportion' | 'mean';
 
+/** What the outcome of a scenario depends on besides its row. */
+export interface OutcomeContext {
+  /** monteCarlo.failureDefinition of the case. */
+  failureDefinition: 'shutdown-or-critical-loss' | 'shutdown-only';
+}
+
 export interface OutcomeDefinition {
   metric: string;
   kind: OutcomeKind;
-  /** Unit of the metric (of the yearly figure for yearly metrics). */
-  unit: string;
   /** Plain words for tables: "shutdown probability". */
   label: string;
   /** The per-scenario value (0/1 for proportions), or undefined when the table lacks its inputs. */
-  values(frame: ScenarioFrame): Float64Array | undefined;
+  values(frame: ScenarioFrame, ctx: OutcomeContext): Float64Array | undefined;
   /**
    * Yearly metrics: `per-year` is lambda times the per-event mean, `in-year` is
    * 1 - exp(-lambda p) (src/stats/annualise.ts).
@@ -46,64 +51,67 @@ const indicator =
 
 const value = (column: string) => (frame: ScenarioFrame) => frame.numeric(column);
 
-/** Failure: the runner's `failure` column (the case's failureDefinition), else shutdown alone. */
-const failure = (frame: ScenarioFrame): Float64Array | undefined =>
-  frame.has('failure') ? indicator('failure')(frame) : indicator('shutdown')(frame);
+/**
+ * Failure: shutdown, or critical load lost (`critical_lost`) under the definition
+ * 'shutdown-or-critical-loss' when the table has that column (as src/results/summary.ts).
+ */
+function failure(frame: ScenarioFrame, ctx: OutcomeContext): Float64Array | undefined {
+  const shutdown = frame.numeric('shutdown');
+  if (!shutdown) return undefined;
+  const critical =
+    ctx.failureDefinition === 'shutdown-or-critical-loss'
+      ? frame.numeric('critical_lost')
+      : undefined;
+  const out = new Float64Array(frame.n);
+  for (let i = 0; i < frame.n; i++)
+    out[i] = shutdown[i] !== 0 || (critical !== undefined && critical[i] !== 0) ? 1 : 0;
+  return out;
+}
 
-/** Load shed: any shed power (shed_kw > 0), or any stage operated when shed_kw is absent. */
-const loadShed = (frame: ScenarioFrame): Float64Array | undefined =>
-  frame.has('shed_kw')
-    ? indicator('shed_kw', (x) => x > 0)(frame)
-    : indicator('shed_stages')(frame);
+/** Critical load carried: 1 - critical_lost. */
+const criticalCarried = indicator('critical_lost', (x) => x === 0);
 
-/** The summary metrics (CONTRACT.md summary.arrow, required metrics) and their outcomes. */
+/** The summary metrics (src/results/summary.ts rows()) and their per-scenario outcomes. */
 export const outcomeDefinitions: readonly OutcomeDefinition[] = [
   {
     metric: 'p_load_shed',
     kind: 'proportion',
-    unit: '1',
     label: 'load-shedding probability',
-    values: loadShed,
+    values: indicator('shed_kw', (x) => x > 0),
   },
   {
     metric: 'p_shutdown',
     kind: 'proportion',
-    unit: '1',
     label: 'shutdown probability',
     values: indicator('shutdown'),
   },
   {
     metric: 'p_frequency_violation',
     kind: 'proportion',
-    unit: '1',
     label: 'frequency-violation probability',
     values: indicator('frequency_violation'),
   },
   {
     metric: 'p_voltage_violation',
     kind: 'proportion',
-    unit: '1',
     label: 'voltage-violation probability',
     values: indicator('voltage_violation'),
   },
   {
-    metric: 'p_failure',
-    kind: 'proportion',
-    unit: '1',
-    label: 'failure probability per event',
-    values: failure,
-  },
-  {
     metric: 'expected_shed_kw',
     kind: 'mean',
-    unit: 'kW',
     label: 'expected shed load',
     values: value('shed_kw'),
   },
   {
+    metric: 'p_failure',
+    kind: 'proportion',
+    label: 'failure probability per separation',
+    values: failure,
+  },
+  {
     metric: 'failures_per_year',
     kind: 'proportion',
-    unit: '1/yr',
     label: 'failures per year',
     values: failure,
     yearly: 'per-year',
@@ -111,26 +119,45 @@ export const outcomeDefinitions: readonly OutcomeDefinition[] = [
   {
     metric: 'p_failure_in_year',
     kind: 'proportion',
-    unit: '1',
     label: 'probability of a failure in a year',
     values: failure,
     yearly: 'in-year',
   },
   {
+    metric: 'p_critical_carried',
+    kind: 'proportion',
+    label: 'probability the critical load is carried',
+    values: criticalCarried,
+  },
+  {
+    metric: 'eue_kwh_per_event',
+    kind: 'mean',
+    label: 'expected unserved energy per separation',
+    values: value('unserved_kwh'),
+  },
+  {
     metric: 'eue_kwh_per_year',
     kind: 'mean',
-    unit: 'kWh/yr',
     label: 'expected unserved energy per year',
     values: value('unserved_kwh'),
+    yearly: 'per-year',
+  },
+  {
+    metric: 'eue_critical_kwh_per_year',
+    kind: 'mean',
+    label: 'expected unserved critical energy per year',
+    values: value('unserved_critical_kwh'),
+    yearly: 'per-year',
+  },
+  {
+    metric: 'lole_h_per_year',
+    kind: 'mean',
+    label: 'expected hours of load not served per year',
+    values: value('lol_h'),
     yearly: 'per-year',
   },
 ];
 
 export function outcomeDefinition(metric: string): OutcomeDefinition | undefined {
   return outcomeDefinitions.find((d) => d.metric === metric);
-}
-
-/** The metrics whose per-scenario inputs the frame lacks. */
-export function missingOutcomes(frame: ScenarioFrame): string[] {
-  return outcomeDefinitions.filter((d) => d.values(frame) === undefined).map((d) => d.metric);
 }

@@ -1,0 +1,143 @@
+/**
+ * `holdfast compare` as a library function: runs both designs with the runner on the same seed
+ * and scenario ids (common random numbers: the sampler draws every random number of scenario k
+ * from streams of (seed, k), and a design parameter never changes which draws are made, so the
+ * two designs see the same weather, loads, outages and faults), pairs the rows by scenario_id
+ * and writes the paired differences, the drivers of each design and the plain-words table.
+ *
+ * Folder: <outDir>/base/ and <outDir>/variant/ (each a complete run folder), and
+ * <outDir>/comparison.arrow. The seed and scenario count are the base's (or the options'), for
+ * both designs, whatever the variant file says.
+ */
+import { join } from 'node:path';
+import type { LoadedCase } from '../case/load.js';
+import type { Case } from '../case/schema.js';
+import type { ShardSpec } from '../run/plan.js';
+import { type RunOutcome, runAssessment } from '../run/run.js';
+import { type ComparisonResult, compareDesigns } from './comparison.js';
+import { writeComparisonArrow } from './designOutputs.js';
+import { comparisonText } from './designText.js';
+import type { DriversResult } from './drivers.js';
+import { analyseRunDrivers } from './runDrivers.js';
+import { readScenarioFrame } from './scenarioFrame.js';
+
+export interface CompareOptions {
+  outDir: string;
+  scenarios?: number;
+  seed?: number | string;
+  workers?: number;
+  shard?: ShardSpec;
+  parquet?: boolean;
+  signal?: AbortSignal;
+  onProgress?: (design: 'base' | 'variant', done: number, total: number) => void;
+  /** Names for the table ("kestrel-island", "kestrel-island with x=1"). */
+  baseName: string;
+  variantName: string;
+}
+
+export interface CompareOutcome {
+  base: RunOutcome;
+  /** Undefined when the base run stopped early and the variant was not run. */
+  variant: RunOutcome | undefined;
+  /** Undefined when a run stopped early (partial): nothing is paired then. */
+  comparison: ComparisonResult | undefined;
+  drivers: { base: DriversResult | undefined; variant: DriversResult | undefined } | undefined;
+  comparisonPath: string | undefined;
+  confidenceLevel: number;
+  text: string;
+}
+
+/** The design content of a case: everything but its name and description. */
+function designOf(c: Case): unknown {
+  const { name: _n, description: _d, invented: _i, ...rest } = c;
+  return rest;
+}
+
+/** Same design: equal resolved content and the same folder (so the same profile files). */
+export function sameDesign(a: LoadedCase, b: LoadedCase): boolean {
+  return a.dir === b.dir && JSON.stringify(designOf(a.case)) === JSON.stringify(designOf(b.case));
+}
+
+export async function runComparison(
+  base: LoadedCase,
+  variant: LoadedCase,
+  opts: CompareOptions,
+): Promise<CompareOutcome> {
+  const seed = opts.seed ?? base.case.monteCarlo.seed;
+  const scenarios = opts.scenarios ?? base.case.monteCarlo.scenarios;
+  const common = {
+    seed,
+    scenarios,
+    workers: opts.workers,
+    shard: opts.shard,
+    parquet: opts.parquet,
+    signal: opts.signal,
+  };
+  const baseRun = await runAssessment(base, {
+    ...common,
+    outDir: join(opts.outDir, 'base'),
+    onProgress: opts.onProgress && ((d, t) => opts.onProgress?.('base', d, t)),
+  });
+  const level = baseRun.manifest.confidenceLevel;
+  if (baseRun.status === 'partial')
+    return stopped(baseRun, undefined, level, 'the base run stopped early');
+  const variantRun = await runAssessment(variant, {
+    ...common,
+    outDir: join(opts.outDir, 'variant'),
+    onProgress: opts.onProgress && ((d, t) => opts.onProgress?.('variant', d, t)),
+  });
+  if (variantRun.status === 'partial')
+    return stopped(baseRun, variantRun, level, 'the variant run stopped early');
+  const baseFrame = readScenarioFrame(baseRun.paths.scenarios);
+  const variantFrame = readScenarioFrame(variantRun.paths.scenarios);
+  const comparison = compareDesigns({
+    base: baseFrame,
+    variant: variantFrame,
+    baseSummary: baseRun.summary,
+    variantSummary: variantRun.summary,
+    baseFailureDefinition: base.case.monteCarlo.failureDefinition,
+    variantFailureDefinition: variant.case.monteCarlo.failureDefinition,
+    baseRatePerYear: base.case.events.islandingRatePerYear,
+    variantRatePerYear: variant.case.events.islandingRatePerYear,
+    confidenceLevel: level,
+    identicalDesigns: sameDesign(base, variant),
+  });
+  const comparisonPath = writeComparisonArrow(opts.outDir, comparison.rows, level);
+  const drivers = {
+    base: analyseRunDrivers(baseFrame, join(opts.outDir, 'base'), level),
+    variant: analyseRunDrivers(variantFrame, join(opts.outDir, 'variant'), level),
+  };
+  const text = comparisonText(comparison.rows, {
+    nPairs: comparison.nPairs,
+    level,
+    baseName: opts.baseName,
+    variantName: opts.variantName,
+    dir: opts.outDir,
+  });
+  return {
+    base: baseRun,
+    variant: variantRun,
+    comparison,
+    drivers,
+    comparisonPath,
+    confidenceLevel: level,
+    text,
+  };
+}
+
+function stopped(
+  base: RunOutcome,
+  variant: RunOutcome | undefined,
+  level: number,
+  why: string,
+): CompareOutcome {
+  return {
+    base,
+    variant,
+    comparison: undefined,
+    drivers: undefined,
+    comparisonPath: undefined,
+    confidenceLevel: level,
+    text: `Not compared: ${why}; the run folders are marked partial.\n`,
+  };
+}

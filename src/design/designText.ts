@@ -1,0 +1,142 @@
+/**
+ * The plain-words tables printed by compare, sweep and the drivers: short, one line per metric
+ * or stratum, probabilities in percent and their differences in percentage points.
+ */
+import type { ComparisonRow } from './comparison.js';
+import type { DriverRow, DriversResult } from './drivers.js';
+import { topDrivers } from './drivers.js';
+import type { KneeResult } from './knee.js';
+
+/** "4.1 %", "0.052 %", "12 %". */
+export function percentText(x: number): string {
+  if (!Number.isFinite(x)) return 'n/a';
+  const v = 100 * x;
+  const a = Math.abs(v);
+  if (a === 0) return '0 %';
+  return `${a < 0.1 ? v.toPrecision(2) : v.toFixed(a < 10 ? 2 : 1)} %`;
+}
+
+/** Percentage points of a difference of probabilities: "-2.9", "+0.31". */
+function pointsText(x: number): string {
+  if (!Number.isFinite(x)) return 'n/a';
+  const v = 100 * x;
+  const a = Math.abs(v);
+  const s = a === 0 ? '0' : a < 0.1 ? v.toPrecision(2) : v.toFixed(a < 10 ? 2 : 1);
+  return v > 0 ? `+${s}` : s;
+}
+
+/** A number to 3 significant digits, in exponent form outside 1e-3..1e6. */
+export function numberText(x: number): string {
+  if (!Number.isFinite(x)) return 'n/a';
+  if (x === 0) return '0';
+  return Math.abs(x) >= 1e-3 && Math.abs(x) < 1e6
+    ? String(Number(x.toPrecision(3)))
+    : x.toExponential(2);
+}
+
+const signed = (x: number) => (x > 0 ? `+${numberText(x)}` : numberText(x));
+
+const isProbability = (r: { metric: string }) => r.metric.startsWith('p_');
+
+const levelText = (level: number) => `${Number((level * 100).toPrecision(4))} %`;
+
+/** "shutdown probability 4.1 % -> 1.2 %, difference -2.9 points (95 % CI -3.4 to -2.4)". */
+export function comparisonLine(r: ComparisonRow, level: number): string {
+  const ci = Number.isNaN(r.diffCiLow) ? '(no paired interval)' : undefined;
+  if (isProbability(r)) {
+    const interval =
+      ci ?? `(${levelText(level)} CI ${pointsText(r.diffCiLow)} to ${pointsText(r.diffCiHigh)})`;
+    return `${r.label} ${percentText(r.base)} -> ${percentText(r.variant)}, difference ${pointsText(r.difference)} points ${interval}`;
+  }
+  const unit = r.unit === '1' || r.unit === '' ? '' : ` ${r.unit}`;
+  const interval =
+    ci ?? `(${levelText(level)} CI ${signed(r.diffCiLow)} to ${signed(r.diffCiHigh)})`;
+  return `${r.label} ${numberText(r.base)}${unit} -> ${numberText(r.variant)}${unit}, difference ${signed(r.difference)}${unit} ${interval}`;
+}
+
+export function comparisonText(
+  rows: readonly ComparisonRow[],
+  info: { nPairs: number; level: number; baseName: string; variantName: string; dir: string },
+): string {
+  const lines = [
+    `Paired comparison on ${info.nPairs.toLocaleString('en-US')} common scenarios: ${info.baseName} -> ${info.variantName}`,
+    ...rows.map((r) => `  ${comparisonLine(r, info.level)}`),
+    `Tables in ${info.dir}`,
+  ];
+  return `${lines.join('\n')}\n`;
+}
+
+function driverLine(r: DriverRow, level: number): string {
+  return `  ${r.stratum} (${r.driver.replaceAll('_', ' ')}): ${percentText(r.probability)} (${levelText(level)} CI ${percentText(r.ciLow)} to ${percentText(r.ciHigh)}), ${numberText(r.riskRatio)} times the rest (CI ${numberText(r.rrCiLow)} to ${numberText(r.rrCiHigh)}), ${percentText(r.shareOfEvents)} of the events`;
+}
+
+/** The short "top drivers" table: strata with a clear excess risk, and the causes of shutdown. */
+export function driversText(result: DriversResult, count = 5): string {
+  const level = result.confidenceLevel;
+  const lines: string[] = [];
+  for (const [outcome, words] of [
+    ['shutdown', 'shutdown'],
+    ['load_shed', 'load shedding'],
+  ] as const) {
+    const top = topDrivers(result, outcome, count);
+    lines.push(
+      `Top drivers of ${words} (overall ${percentText(result.overall[outcome])}; risk ratio against the rest of the scenarios):`,
+    );
+    if (top.length === 0) lines.push('  none stands out beyond the statistical noise');
+    for (const r of top) lines.push(driverLine(r, level));
+  }
+  const causes = result.rows.filter((r) => r.driver === 'shutdown_cause').slice(0, count);
+  if (causes.length > 0) {
+    lines.push('Causes of shutdown, most frequent first:');
+    for (const r of causes)
+      lines.push(
+        `  ${r.stratum}: ${percentText(r.shareOfEvents)} of shutdowns, ${percentText(r.probability)} of separations (${levelText(level)} CI ${percentText(r.ciLow)} to ${percentText(r.ciHigh)})`,
+      );
+  }
+  if (result.missing.length > 0)
+    lines.push(`(not in the scenario table, so not analysed: ${result.missing.join(', ')})`);
+  return `${lines.join('\n')}\n`;
+}
+
+export interface SweepLine {
+  valueText: string;
+  rows: readonly {
+    metric: string;
+    estimate: number;
+    ciLow: number;
+    ciHigh: number;
+    unit: string;
+  }[];
+}
+
+/** Risk against the swept value, the knee pointed out where there is one. */
+export function sweepText(
+  path: string,
+  lines: readonly SweepLine[],
+  info: {
+    metrics: readonly string[];
+    knee: KneeResult | undefined;
+    kneeMetric: string;
+    level: number;
+    dir: string;
+  },
+): string {
+  const out = [`Sweep of ${path} (${levelText(info.level)} intervals, common random numbers):`];
+  lines.forEach((l, i) => {
+    const parts = info.metrics.map((m) => {
+      const r = l.rows.find((x) => x.metric === m);
+      if (!r) return `${m} n/a`;
+      const f = isProbability(r) ? percentText : numberText;
+      return `${m.replaceAll('_', ' ')} ${f(r.estimate)} (${f(r.ciLow)} to ${f(r.ciHigh)})`;
+    });
+    const mark = info.knee?.index === i ? '   <- knee' : '';
+    out.push(`  ${path} = ${l.valueText}: ${parts.join(', ')}${mark}`);
+  });
+  out.push(
+    info.knee
+      ? `Knee of ${info.kneeMetric} at ${path} = ${numberText(info.knee.x)}: past it each step buys much less (largest distance below the chord).`
+      : `No knee in ${info.kneeMetric}: the curve is straight, concave, or its change is within the statistical noise.`,
+  );
+  out.push(`Tables in ${info.dir}`);
+  return `${out.join('\n')}\n`;
+}
