@@ -84,7 +84,7 @@ export class ExactSum {
       const x = hi + y;
       if (y === x - hi) hi = x;
     }
-    return hi;
+    return hi + 0; // one zero: -0 + 0 = +0
   }
 
   /** The expansion's components (for serialisation); their exact sum is the sum. */
