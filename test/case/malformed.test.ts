@@ -16,9 +16,11 @@ const dir = 'test/case/malformed';
 const expectations: Record<string, string> = {
   'a-directory.yaml': `${dir}/a-directory.yaml`,
   'alias-bomb.yaml': `${dir}/alias-bomb.yaml`,
-  'bad-syntax.yaml': `${dir}/bad-syntax.yaml:4`,
+  // four files carry a .txt/.bin extension so the repository's formatter does not try to parse
+  // them; the loader reads an unknown extension as JSON when it starts with "{", else YAML
+  'bad-syntax.yaml.txt': `${dir}/bad-syntax.yaml.txt:4`,
   'bad-tier.yaml': '/loads/0/tier',
-  'binary-garbage.yaml': `${dir}/binary-garbage.yaml`,
+  'binary-garbage.bin': `${dir}/binary-garbage.bin`,
   'branch-both-units.yaml': '/network/branches/0',
   'branch-no-impedance.yaml': '/network/branches/0',
   'comments-only.yaml': `${dir}/comments-only.yaml`,
@@ -35,7 +37,7 @@ const expectations: Record<string, string> = {
   'empty.yaml': `${dir}/empty.yaml`,
   'frequency-55.yaml': '/system/frequencyHz',
   'fuel-curve.yaml': '/sources/0/fuelFullLoadLPerH',
-  'invalid-utf8.yaml': `${dir}/invalid-utf8.yaml`,
+  'invalid-utf8.txt': `${dir}/invalid-utf8.txt`,
   'missing-rating.yaml': '/sources/0/ratingKw',
   'missing-sources.yaml': '/sources',
   'missing-system.yaml': '/system',
@@ -49,7 +51,7 @@ const expectations: Record<string, string> = {
   'soc-over-one.yaml': '/sources/1/socMaxFraction',
   'soc-unbounded.yaml': '/sources/1/socAtEvent/kind',
   'standby-only.yaml': '/sources',
-  'syntax.json': `${dir}/syntax.json`,
+  'syntax-json.txt': `${dir}/syntax-json.txt`,
   'typo-key.yaml': '/sources/0/ratingKw',
   'ufls-above-nominal.yaml': '/protection/ufls/0/thresholdHz',
   'ufls-ascending.yaml': '/protection/ufls/1/thresholdHz',
