@@ -19,7 +19,13 @@
  * frequency event. Healthy units tripped by protection return at the next step; failed units
  * (forced outage, failed start, failure during the outage) stay out until the grid returns.
  */
+import type { Case } from '../case/schema.js';
 import { RunError } from '../errors.js';
+import { EventResult } from '../grid/frequency/event-result.js';
+import type { Island } from '../grid/frequency/island.js';
+import { type EventOptions, simulateEvent } from '../grid/frequency/simulate.js';
+import { conditionsAtHour } from '../sample/conditions.js';
+import type { SamplerContext } from '../sample/sampler.js';
 import type { Scenario } from '../sample/scenario.js';
 import { hoursToFloor, hoursToFull, socAfter } from './battery-energy.js';
 import {
@@ -31,6 +37,7 @@ import {
 import { dispatchSegment, SOC_MARGIN } from './dispatch.js';
 import { fuelRateLPerH } from './genset-fuel.js';
 import {
+  buildOutageModel,
   type EventOutcome,
   KIND_BATTERY,
   KIND_FUELCELL,
@@ -50,6 +57,27 @@ const TIME_EPS_H = 1e-9;
 const SHED_REL_TOL = 1e-9;
 /** A guard against a segment loop that cannot advance (never reached by a consistent model). */
 const MAX_SEGMENTS_PER_STEP = 64;
+
+/**
+ * The outage model of a case, wired to the sampler's hourly conditions and to the frequency
+ * engine for contingencies (one preallocated EventResult and operating point per model: build
+ * one model per worker). Throws CaseError for a fuel curve or battery window that cannot work.
+ */
+export function compileOutage(c: Case, sampler: SamplerContext, island: Island): OutageModel {
+  const ev = new EventResult(c.sources.length, c.loads.length);
+  const opts: EventOptions = {
+    horizonS: c.monteCarlo.horizonS,
+    rocofWindowS: c.monteCarlo.rocofWindowS,
+  };
+  return buildOutageModel(c, {
+    conditionsAtHour: (hourOfYear, outLoadKw, outAvailableKw) =>
+      conditionsAtHour(sampler, hourOfYear, outLoadKw, outAvailableKw),
+    runContingency: (op) => {
+      simulateEvent(island, op, opts, ev);
+      return ev;
+    },
+  });
+}
 
 /** Simulates the outage of scenario `sc` after its frequency event `ev`, into `out`. */
 export function simulateOutage(
