@@ -41,6 +41,18 @@ export type ColumnArray =
   | Float64Array
   | Int32Array;
 
+/** Dictionary of `shutdown_cause` (the frequency engine's causes; unknown text maps to 'other'). */
+export const shutdownCauses: readonly string[] = [
+  '',
+  'under-frequency',
+  'over-frequency',
+  'no grid-forming source',
+  'battery exhausted',
+  'grid-forming overload',
+  'other',
+];
+export const eventStatuses: readonly string[] = ['ok', 'shutdown', 'failed'];
+
 const f64 = (group: ColumnGroup, name: string, unit: string, description: string): ColumnSpec => ({
   name,
   kind: 'float64',
@@ -99,6 +111,62 @@ export const allColumns: readonly ColumnSpec[] = [
   f64('sample', 'dip_retained_pu', 'pu', 'retained voltage at the PCC during the fault'),
   f64('sample', 'dip_duration_s', 's', 'duration of the voltage dip before separation'),
   f64('sample', 'outage_duration_h', 'h', 'sampled duration of the utility outage'),
+  // frequency event (src/grid/frequency)
+  f64(
+    'frequency',
+    'deficit_kw',
+    'kW',
+    'power imbalance at separation (load minus output of the sources still online, after ride-through trips)',
+  ),
+  f64('frequency', 'nadir_hz', 'Hz', 'lowest frequency of the event'),
+  f64('frequency', 'nadir_time_s', 's', 'time of the nadir after separation'),
+  f64('frequency', 'zenith_hz', 'Hz', 'highest frequency of the event'),
+  f64(
+    'frequency',
+    'rocof_max_hz_per_s',
+    'Hz/s',
+    'largest rate of change of frequency over the RoCoF window (monteCarlo.rocofWindowS)',
+  ),
+  f64('frequency', 'f_settled_hz', 'Hz', 'frequency at the horizon (or at shutdown)'),
+  f64('frequency', 'shed_kw', 'kW', 'load shed by under-frequency load shedding'),
+  {
+    name: 'shed_stages',
+    kind: 'int8',
+    unit: '1',
+    description: 'UFLS stages that operated',
+    group: 'frequency',
+  },
+  {
+    name: 'shutdown',
+    kind: 'bool',
+    unit: '1',
+    description: 'the island collapsed during the frequency event',
+    group: 'frequency',
+  },
+  {
+    name: 'shutdown_cause',
+    kind: 'category',
+    unit: '1',
+    description: 'why the island shut down; empty when it did not',
+    group: 'frequency',
+    categories: shutdownCauses,
+  },
+  {
+    name: 'units_tripped',
+    kind: 'int16',
+    unit: '1',
+    description: 'sources lost during the event (protection or the voltage dip)',
+    group: 'frequency',
+  },
+  {
+    name: 'event_status',
+    kind: 'category',
+    unit: '1',
+    description:
+      "frequency simulation status: 'ok', 'shutdown', or 'failed' (the integrator gave up; the row's figures are those reached)",
+    group: 'frequency',
+    categories: eventStatuses,
+  },
 ];
 
 /** The columns of the given groups, in file order. */

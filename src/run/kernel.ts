@@ -14,13 +14,18 @@
  */
 import type { Case } from '../case/schema.js';
 import { RunError } from '../errors.js';
+import { EventResult } from '../grid/frequency/event-result.js';
+import { compileIsland } from '../grid/frequency/island.js';
+import { type EventOptions, simulateEvent } from '../grid/frequency/simulate.js';
 import {
   allocateBatch,
   type ColumnBatch,
   type ColumnGroup,
   type ColumnSpec,
   columnsOf,
+  eventStatuses,
   setInt64,
+  shutdownCauses,
 } from '../results/columns.js';
 import { monthOfHour } from '../sample/calendar.js';
 import { compileSampler, sampleScenario } from '../sample/sampler.js';
@@ -48,7 +53,7 @@ export interface ScenarioKernel {
 
 /** The column groups this build produces, in kernel order. */
 export function kernelGroups(): ColumnGroup[] {
-  return ['core', 'sample'];
+  return ['core', 'sample', 'frequency'];
 }
 
 /** Indices of the sources of one kind, for the per-kind sums of the sample columns. */
@@ -76,6 +81,16 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
     return s.kind === 'battery' ? s.energyKwh : 0;
   });
 
+  const island = compileIsland(c);
+  const ev = new EventResult(c.sources.length, c.loads.length);
+  const eventOpts: EventOptions = {
+    horizonS: c.monteCarlo.horizonS,
+    rocofWindowS: c.monteCarlo.rocofWindowS,
+  };
+  const causeCode = new Map(shutdownCauses.map((name, k) => [name, k]));
+  const otherCause = causeCode.get('other')!;
+  const statusCode = new Map(eventStatuses.map((name, k) => [name, k]));
+
   function runBatch(firstId: number, count: number): ColumnBatch {
     const batch = allocateBatch(specs, firstId, count);
     const col = batch.columns;
@@ -92,6 +107,18 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
     const dipPu = col['dip_retained_pu'] as Float64Array;
     const dipS = col['dip_duration_s'] as Float64Array;
     const outageH = col['outage_duration_h'] as Float64Array;
+    const deficitKw = col['deficit_kw'] as Float64Array;
+    const nadirHz = col['nadir_hz'] as Float64Array;
+    const nadirS = col['nadir_time_s'] as Float64Array;
+    const zenithHz = col['zenith_hz'] as Float64Array;
+    const rocof = col['rocof_max_hz_per_s'] as Float64Array;
+    const settledHz = col['f_settled_hz'] as Float64Array;
+    const shedKw = col['shed_kw'] as Float64Array;
+    const shedStages = col['shed_stages'] as Int8Array;
+    const shutdown = col['shutdown'] as Uint8Array;
+    const cause = col['shutdown_cause'] as Int8Array;
+    const tripped = col['units_tripped'] as Int16Array;
+    const status = col['event_status'] as Int8Array;
     for (let row = 0; row < count; row++) {
       const id = firstId + row;
       if (id === faults.throwAtScenarioId)
@@ -99,6 +126,7 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
       if (id === faults.crashAtScenarioId) process.exit(70);
       try {
         sampleScenario(sampler, seed, id, sc);
+        simulateEvent(island, sc, eventOpts, ev);
       } catch (err) {
         throw new RunError(`scenario ${id}: ${(err as Error).message}`, { cause: err });
       }
@@ -131,6 +159,18 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
       dipPu[row] = sc.dipRetainedPu;
       dipS[row] = sc.dipDurationS;
       outageH[row] = sc.outageDurationH;
+      deficitKw[row] = ev.deficitKw;
+      nadirHz[row] = ev.nadirHz;
+      nadirS[row] = ev.nadirTimeS;
+      zenithHz[row] = ev.zenithHz;
+      rocof[row] = ev.rocofMaxHzPerS;
+      settledHz[row] = ev.fSettledHz;
+      shedKw[row] = ev.shedKw;
+      shedStages[row] = ev.shedStages;
+      shutdown[row] = ev.shutdown ? 1 : 0;
+      cause[row] = ev.shutdown ? (causeCode.get(ev.shutdownCause) ?? otherCause) : 0;
+      tripped[row] = ev.unitsTripped;
+      status[row] = statusCode.get(ev.status)!;
     }
     return batch;
   }

@@ -22,7 +22,7 @@ function readJson(path: string): Record<string, unknown> {
   return JSON.parse(readFileSync(path, 'utf8')) as Record<string, unknown>;
 }
 
-const n = 1250; // 13 feed blocks, the last one partial; small enough for 2 shared cores
+const n = 450; // 5 feed blocks of 100, the last one partial; small enough for 2 shared cores
 
 describe('runAssessment', () => {
   const { input, dir } = inventedRunInput();
@@ -93,28 +93,28 @@ describe('runAssessment', () => {
   it('resumes an interrupted run to the uninterrupted result', async () => {
     const whole = await runAssessment(input, {
       outDir: join(dir, 'ref'),
-      scenarios: 2000,
+      scenarios: 600,
       workers: 1,
       batchSize: 100,
     });
     const d = join(dir, 'resumed');
-    // stop requested after 2 written batches; the batches in flight (window 4) are finished first
+    // stop requested after 1 written batch; the batches in flight (window 4) are finished first
     const cut = await runAssessment(input, {
       outDir: d,
-      scenarios: 2000,
+      scenarios: 600,
       workers: 1,
       batchSize: 100,
-      stopAfterBatches: 2,
+      stopAfterBatches: 1,
     });
     expect(cut.status).toBe('partial');
     expect(cut.stopReason).toBe('interrupted');
     const partialRows = readRows(cut.paths.scenarios);
     expect(partialRows.length).toBe(cut.manifest.scenarioCount);
-    expect(partialRows.length).toBeLessThan(2000);
+    expect(partialRows.length).toBeLessThan(600);
     expect(readJson(join(d, 'run.json'))['status']).toBe('partial');
     const resumed = await runAssessment(input, {
       outDir: d,
-      scenarios: 2000,
+      scenarios: 600,
       workers: 2,
       batchSize: 300,
       resume: true,
@@ -145,15 +145,15 @@ describe('runAssessment', () => {
       scenarios: n,
       workers: 2,
       batchSize: 200,
-      faults: { throwAtScenarioId: 777 },
+      faults: { throwAtScenarioId: 277 },
     });
     await expect(run).rejects.toThrow(RunError);
-    await expect(run).rejects.toThrow(/scenario 777/);
+    await expect(run).rejects.toThrow(/scenario 277/);
     const m = readJson(join(d, 'run.json'));
     expect(m['status']).toBe('partial');
     const rows = readRows(join(d, 'scenarios.arrow'));
     expect(rows.length).toBe(m['scenarioCount']);
-    expect(rows.length).toBeLessThanOrEqual(600); // only the contiguous prefix before batch 600-799
+    expect(rows.length).toBeLessThanOrEqual(200); // only the contiguous prefix before batch 200-399
     expect(rows.map((r) => Number(r['scenario_id']))).toEqual(
       Array.from({ length: rows.length }, (_, i) => i),
     );
