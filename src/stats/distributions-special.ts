@@ -81,9 +81,14 @@ export function lnGamma(x: number): number {
 
 /** Regularised incomplete beta function I_x(a, b), a, b > 0. */
 export function betaIncRegularized(x: number, a: number, b: number): number {
+  return betaIncWithLnBeta(x, a, b, lnGamma(a) + lnGamma(b) - lnGamma(a + b));
+}
+
+/** I_x(a, b) given lnB = ln B(a, b), precomputed by callers that evaluate it repeatedly. */
+export function betaIncWithLnBeta(x: number, a: number, b: number, lnB: number): number {
   if (x <= 0) return 0;
   if (x >= 1) return 1;
-  const lnFront = lnGamma(a + b) - lnGamma(a) - lnGamma(b) + a * Math.log(x) + b * Math.log1p(-x);
+  const lnFront = a * Math.log(x) + b * Math.log1p(-x) - lnB;
   if (x > (a + 1) / (a + b + 2)) return 1 - (Math.exp(lnFront) * betaFraction(1 - x, b, a)) / b;
   return (Math.exp(lnFront) * betaFraction(x, a, b)) / a;
 }

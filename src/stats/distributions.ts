@@ -20,7 +20,13 @@
  * does no allocation.
  */
 import type { Distribution } from '../case/schema.js';
-import { betaIncRegularized, lnGamma, normalCdf, normalQuantile } from './distributions-special.js';
+import {
+  betaIncRegularized,
+  betaIncWithLnBeta,
+  lnGamma,
+  normalCdf,
+  normalQuantile,
+} from './distributions-special.js';
 
 /** Anything that yields uniforms in (0, 1). */
 export interface UniformSource {
@@ -69,12 +75,24 @@ export function betaQuantile(u: number, alpha: number, beta: number): number {
   if (u <= 0) return 0;
   if (u >= 1) return 1;
   const lnB = lnGamma(alpha) + lnGamma(beta) - lnGamma(alpha + beta);
-  let lo = 0;
-  let hi = 1;
-  // Start at the mean; Newton converges in a few steps, bisection guards the flat tails.
-  let x = alpha / (alpha + beta);
+  return betaQuantileFrom(u, alpha, beta, lnB, 0, 1, alpha / (alpha + beta));
+}
+
+/**
+ * Safeguarded Newton for I_x(a,b) = u from the start x inside the bracket [lo, hi]; stops at
+ * |I_x - u| < 1e-14 or a bracket narrower than 1e-15.
+ */
+function betaQuantileFrom(
+  u: number,
+  alpha: number,
+  beta: number,
+  lnB: number,
+  lo: number,
+  hi: number,
+  x: number,
+): number {
   for (let i = 0; i < 100; i++) {
-    const f = betaIncRegularized(x, alpha, beta) - u;
+    const f = betaIncWithLnBeta(x, alpha, beta, lnB) - u;
     if (f > 0) hi = x;
     else lo = x;
     if (Math.abs(f) < 1e-14 || hi - lo < 1e-15) break;
@@ -145,6 +163,9 @@ export function poissonDraw(rng: UniformSource, lambda: number): number {
   return count;
 }
 
+/** Nodes of the beta quantile table used as Newton starting brackets. */
+const betaTableSize = 256;
+
 /** A distribution with its parameters precomputed for repeated quantile evaluation. */
 export class CompiledDistribution {
   readonly kind: Distribution['kind'];
@@ -154,6 +175,9 @@ export class CompiledDistribution {
   private readonly max: number;
   private readonly values: Float64Array;
   private readonly cumulative: Float64Array;
+  /** Beta: ln B(a, b) and exact quantiles at u = j / betaTableSize (Newton starting points). */
+  private readonly lnB: number;
+  private readonly betaTable: Float64Array;
 
   constructor(d: Distribution) {
     this.kind = d.kind;
@@ -163,6 +187,8 @@ export class CompiledDistribution {
     this.max = 1;
     this.values = new Float64Array(0);
     this.cumulative = new Float64Array(0);
+    this.lnB = 0;
+    this.betaTable = new Float64Array(0);
     switch (d.kind) {
       case 'fixed':
         this.a = d.value;
@@ -188,6 +214,12 @@ export class CompiledDistribution {
         this.b = d.beta;
         this.min = d.min;
         this.max = d.max;
+        this.lnB = lnGamma(d.alpha) + lnGamma(d.beta) - lnGamma(d.alpha + d.beta);
+        this.betaTable = new Float64Array(betaTableSize + 1);
+        for (let j = 1; j < betaTableSize; j++) {
+          this.betaTable[j] = betaQuantile(j / betaTableSize, d.alpha, d.beta);
+        }
+        this.betaTable[betaTableSize] = 1;
         break;
       case 'empirical': {
         const n = d.values.length;
@@ -222,8 +254,16 @@ export class CompiledDistribution {
         return Math.exp(this.a + this.b * normalQuantile(u));
       case 'weibull':
         return weibullQuantile(u, this.a, this.b);
-      case 'beta':
-        return this.min + (this.max - this.min) * betaQuantile(u, this.a, this.b);
+      case 'beta': {
+        // Exact quantile: Newton from the tabulated bracket (one or two CDF evaluations).
+        const t = u * betaTableSize;
+        const j = Math.min(Math.floor(t), betaTableSize - 1);
+        const lo = this.betaTable[j]!;
+        const hi = this.betaTable[j + 1]!;
+        const x0 = lo + (t - j) * (hi - lo);
+        const x = betaQuantileFrom(u, this.a, this.b, this.lnB, lo, hi, x0);
+        return this.min + (this.max - this.min) * x;
+      }
       case 'empirical': {
         const c = this.cumulative;
         let lo = 0;
