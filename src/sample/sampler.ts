@@ -37,10 +37,27 @@ export const sourceSlots = 5;
 export const scenarioSlots = 4;
 
 /** Beta shape of the default state-of-charge spread above the reserve (no source). */
-const defaultSocBeta = {
-  chargeToMax: { alpha: 4, beta: 1 },
-  other: { alpha: 2, beta: 2 },
-} as const;
+const defaultSocBeta = { alpha: 2, beta: 2 } as const;
+/**
+ * Default for charge-to-max batteries: full (at socMax) with this probability, else the beta
+ * spread; a battery charging at rated power spends most hours full (screening assumption, no source).
+ */
+const chargeToMaxFullProbability = 0.9;
+
+/** State of charge at the event from one uniform: a point mass at socMax plus a distribution. */
+export class SocModel {
+  constructor(
+    readonly spread: CompiledDistribution,
+    readonly fullProbability: number,
+    readonly socMaxFraction: number,
+  ) {}
+
+  /** Monotone in u: the spread for u below 1 - fullProbability, socMax above. */
+  quantile(u: number): number {
+    const q = 1 - this.fullProbability;
+    return u >= q ? this.socMaxFraction : this.spread.quantile(u / q);
+  }
+}
 
 /** Everything precomputed for one case in one worker; reused for every scenario. */
 export interface SamplerContext {
@@ -59,7 +76,7 @@ export interface SamplerContext {
   /** 1 inside a maintenance window, per source and hour (null if the source has none). */
   readonly maintenance: readonly (Uint8Array | null)[];
   /** State-of-charge distribution per source (batteries only). */
-  readonly soc: readonly (CompiledDistribution | null)[];
+  readonly soc: readonly (SocModel | null)[];
   readonly outageDurationH: CompiledDistribution;
   readonly dipRetainedPu: CompiledDistribution;
   readonly dipDurationS: CompiledDistribution;
@@ -77,14 +94,19 @@ export interface SamplerContext {
   readonly scratch: Float64Array;
 }
 
-function profileSocDistribution(b: Battery): CompiledDistribution {
-  if (b.socAtEvent) return new CompiledDistribution(b.socAtEvent);
+function socModel(b: Battery): SocModel {
+  if (b.socAtEvent)
+    return new SocModel(new CompiledDistribution(b.socAtEvent), 0, b.socMaxFraction);
   const lo = Math.max(b.socReserveFraction, b.socMinFraction);
   const hi = b.socMaxFraction;
-  if (!(hi > lo)) return new CompiledDistribution({ kind: 'fixed', value: hi });
-  const shape =
-    b.gridConnectedMode === 'charge-to-max' ? defaultSocBeta.chargeToMax : defaultSocBeta.other;
-  return new CompiledDistribution({ kind: 'beta', ...shape, min: lo, max: hi });
+  const full = b.gridConnectedMode === 'charge-to-max' ? chargeToMaxFullProbability : 0;
+  if (!(hi > lo))
+    return new SocModel(new CompiledDistribution({ kind: 'fixed', value: hi }), 0, hi);
+  return new SocModel(
+    new CompiledDistribution({ kind: 'beta', ...defaultSocBeta, min: lo, max: hi }),
+    full,
+    hi,
+  );
 }
 
 function maintenanceMask(s: Source): Uint8Array | null {
@@ -178,7 +200,7 @@ export function compileSampler(c: Case, caseDir: string): SamplerContext {
     pv,
     wind,
     maintenance: c.sources.map(maintenanceMask),
-    soc: c.sources.map((s) => (s.kind === 'battery' ? profileSocDistribution(s) : null)),
+    soc: c.sources.map((s) => (s.kind === 'battery' ? socModel(s) : null)),
     outageDurationH: new CompiledDistribution(c.events.outageDurationH),
     dipRetainedPu: new CompiledDistribution(c.events.dipRetainedPu),
     dipDurationS: new CompiledDistribution(c.events.dipDurationS),

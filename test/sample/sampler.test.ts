@@ -163,6 +163,33 @@ describe('scenario sampler: physics and dispatch invariants', () => {
     }
   });
 
+  it('charge-to-max batteries are full 90 % of the time by default and charge at rating otherwise', () => {
+    const c = inventedCase((x) => {
+      const b = x.sources[2]!;
+      if (b.kind === 'battery') b.gridConnectedMode = 'charge-to-max';
+    });
+    const ctx = compileSampler(c, '.');
+    const s = new Scenario(c.sources.length, c.loads.length);
+    const n = 20_000;
+    let full = 0;
+    let seen = 0;
+    for (let id = 0; id < n; id++) {
+      sampleScenario(ctx, 6, id, s);
+      if (s.available[2] === 0) continue;
+      seen++;
+      if (s.socFraction[2] === 0.95) {
+        full++;
+        expect(s.dispatchKw[2]).toBe(0);
+      } else {
+        expect(s.dispatchKw[2]).toBe(-500);
+        expect(s.socFraction[2]).toBeGreaterThanOrEqual(0.3);
+      }
+    }
+    const [lo, hi] = wilson(full, seen, z999);
+    expect(0.9).toBeGreaterThanOrEqual(lo);
+    expect(0.9).toBeLessThanOrEqual(hi);
+  });
+
   it('takes a source out in its maintenance window, wrapping past the year end', () => {
     const c = inventedCase((x) => {
       x.events.monthlyRateWeights = [1, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 1];
