@@ -3,12 +3,16 @@
  * src/cli/commands/<name>.ts and add one import and one entry here (docs/cli.md).
  */
 import { addCheckCommand } from './commands/check.js';
+import { addCompareCommand } from './commands/compare.js';
 import { addInitCommand } from './commands/init.js';
 import { addSchemaCommand } from './commands/schema.js';
+import { addSweepCommand } from './commands/sweep.js';
 import type { AddCommand } from './frame.js';
 
 export const addCommands: readonly AddCommand[] = [
   addCheckCommand,
   addSchemaCommand,
   addInitCommand,
+  addCompareCommand,
+  addSweepCommand,
 ];

@@ -4,7 +4,7 @@
  */
 import type { ComparisonRow } from './comparison.js';
 import type { DriverRow, DriversResult } from './drivers.js';
-import { topDrivers } from './drivers.js';
+import { minDriverEvents, topDrivers } from './drivers.js';
 import type { KneeResult } from './knee.js';
 
 /** "4.1 %", "0.052 %", "12 %". */
@@ -34,6 +34,15 @@ export function numberText(x: number): string {
     : x.toExponential(2);
 }
 
+/** " kW", " per year", " kWh per year"; nothing for dimensionless figures. */
+function unitText(unit: string): string {
+  if (unit === '1' || unit === '') return '';
+  const perYear = /^(.*?)\s*\/\s*(year|yr)$/.exec(unit);
+  if (perYear)
+    return perYear[1] === '1' || perYear[1] === '' ? ' per year' : ` ${perYear[1]} per year`;
+  return ` ${unit}`;
+}
+
 const signed = (x: number) => (x > 0 ? `+${numberText(x)}` : numberText(x));
 
 const isProbability = (r: { metric: string }) => r.metric.startsWith('p_');
@@ -48,7 +57,7 @@ export function comparisonLine(r: ComparisonRow, level: number): string {
       ci ?? `(${levelText(level)} CI ${pointsText(r.diffCiLow)} to ${pointsText(r.diffCiHigh)})`;
     return `${r.label} ${percentText(r.base)} -> ${percentText(r.variant)}, difference ${pointsText(r.difference)} points ${interval}`;
   }
-  const unit = r.unit === '1' || r.unit === '' ? '' : ` ${r.unit}`;
+  const unit = unitText(r.unit);
   const interval =
     ci ?? `(${levelText(level)} CI ${signed(r.diffCiLow)} to ${signed(r.diffCiHigh)})`;
   return `${r.label} ${numberText(r.base)}${unit} -> ${numberText(r.variant)}${unit}, difference ${signed(r.difference)}${unit} ${interval}`;
@@ -80,7 +89,7 @@ export function driversText(result: DriversResult, count = 5): string {
   ] as const) {
     const top = topDrivers(result, outcome, count);
     lines.push(
-      `Top drivers of ${words} (overall ${percentText(result.overall[outcome])}; risk ratio against the rest of the scenarios):`,
+      `Top drivers of ${words} (overall ${percentText(result.overall[outcome])}; risk ratio against the rest of the scenarios, at least ${minDriverEvents} events, clear of 1 after a Bonferroni adjustment over all strata):`,
     );
     if (top.length === 0) lines.push('  none stands out beyond the statistical noise');
     for (const r of top) lines.push(driverLine(r, level));

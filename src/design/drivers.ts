@@ -43,6 +43,10 @@ export interface DriverRow {
   riskRatio: number;
   rrCiLow: number;
   rrCiHigh: number;
+  /** Lower limit of the risk ratio at the Bonferroni-adjusted level over all strata of the outcome. */
+  rrCiLowFamily: number;
+  /** Weighted events of the outcome in the stratum, as an effective count (Kish). */
+  effectiveEvents: number;
 }
 
 export interface DriversResult {
@@ -116,6 +120,11 @@ export function computeDrivers(frame: ScenarioFrame, opts: DriversOptions): Driv
     (d) => !partitions.some((p) => p.driver === d),
   );
   const z = twoSidedZ(opts.confidenceLevel);
+  // Bonferroni over every stratum of one outcome (Dunn, JASA 56:52-64, 1961): the top-drivers
+  // table picks the largest of many ratios, so its "clearly above 1" must hold for the family
+  let strataCount = 0;
+  for (const p of partitions) strataCount += p.strata.length;
+  const zFamily = twoSidedZ(1 - (1 - opts.confidenceLevel) / Math.max(1, strataCount));
   const weight = frame.weight;
   let wAll = 0;
   let w2All = 0;
@@ -138,6 +147,7 @@ export function computeDrivers(frame: ScenarioFrame, opts: DriversOptions): Driv
         const rest = effective(wAll - s.w[k]!, w2All - s.w2[k]!, wxAll - s.wx[k]!);
         const ci = interval(inside.x, inside.n, opts.confidenceLevel);
         const rr = katzRiskRatio(inside.x, inside.n, rest.x, rest.n, z);
+        const rrFamily = katzRiskRatio(inside.x, inside.n, rest.x, rest.n, zFamily);
         rows.push({
           outcome,
           driver: part.driver,
@@ -151,6 +161,8 @@ export function computeDrivers(frame: ScenarioFrame, opts: DriversOptions): Driv
           riskRatio: rr.ratio,
           rrCiLow: rr.low,
           rrCiHigh: rr.high,
+          rrCiLowFamily: rrFamily.low,
+          effectiveEvents: inside.x,
         });
       }
     }
@@ -198,17 +210,29 @@ function causeRows(
         riskRatio: Number.NaN,
         rrCiLow: Number.NaN,
         rrCiHigh: Number.NaN,
+        rrCiLowFamily: Number.NaN,
+        effectiveEvents: p * nEff,
       };
     });
 }
 
+/** Fewest (effective) events in a stratum for it to be named a top driver (stats' threshold 5). */
+export const minDriverEvents = 5;
+
 /**
- * The top drivers of an outcome: strata whose risk ratio is above 1 with its lower bound above 1
- * too (a real excess, not noise), largest ratio first.
+ * The top drivers of an outcome: strata with at least 5 events whose risk ratio stays above 1
+ * at the family (Bonferroni) level over all strata, so picking the largest of many ratios does
+ * not promote noise; largest ratio first.
  */
 export function topDrivers(result: DriversResult, outcome: DriverOutcome, count = 5): DriverRow[] {
   return result.rows
-    .filter((r) => r.outcome === outcome && r.driver !== 'shutdown_cause' && r.rrCiLow > 1)
+    .filter(
+      (r) =>
+        r.outcome === outcome &&
+        r.driver !== 'shutdown_cause' &&
+        r.effectiveEvents >= minDriverEvents &&
+        r.rrCiLowFamily > 1,
+    )
     .sort((a, b) => b.riskRatio - a.riskRatio || b.shareOfEvents - a.shareOfEvents)
     .slice(0, count);
 }

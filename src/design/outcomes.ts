@@ -161,3 +161,6 @@ export const outcomeDefinitions: readonly OutcomeDefinition[] = [
 export function outcomeDefinition(metric: string): OutcomeDefinition | undefined {
   return outcomeDefinitions.find((d) => d.metric === metric);
 }
+
+/** Every metric the summary can report (src/results/summary.ts rows()): what --fail-if accepts. */
+export const knownSummaryMetrics: readonly string[] = outcomeDefinitions.map((d) => d.metric);

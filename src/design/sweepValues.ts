@@ -1,7 +1,7 @@
 /**
  * The swept parameter of `holdfast sweep CASE --set PATH=V1,V2,...` or `--set PATH=START:STOP:STEP`.
  * Exactly one `--set` of a sweep holds a list or a range; the others are fixed overrides applied
- * to every value. The range includes STOP when it falls on the grid (within a millionth of a
+ * to every value (so is a YAML list or mapping value such as `[0.1, 0.2]`). The range includes STOP when it falls on the grid (within a millionth of a
  * step, so 0:1:0.1 gives 11 values), and each value is rounded to 12 significant digits so that
  * 0.1 + 0.2 reads as 0.3 in the tables and in the override.
  */
@@ -43,7 +43,10 @@ export function parseSweepSets(sets: readonly string[]): SweepSpec {
     const at = s.indexOf('=');
     const path = s.slice(0, at).trim();
     const value = s.slice(at + 1).trim();
-    if (value.includes(',') || /^[^:]+:[^:]+:[^:]+$/.test(value)) swept.push({ path, value });
+    // a YAML list or mapping ([0.1, 0.2], {kind: fixed, value: 4}) is one fixed value
+    const structured = value.startsWith('[') || value.startsWith('{');
+    if (!structured && (value.includes(',') || /^[^:]+:[^:]+:[^:]+$/.test(value)))
+      swept.push({ path, value });
     else fixed.push(s);
   }
   if (swept.length !== 1)

@@ -9,6 +9,9 @@ describe('parseSweepSets', () => {
     expect(s.texts).toEqual(['500', '1000', '2000']);
     expect(s.numbers).toEqual([500, 1000, 2000]);
     expect(s.fixed).toEqual(['monteCarlo.horizonS=30']);
+    const y = parseSweepSets(['a.b=[0.1, 0.2]', 'c={kind: fixed, value: 4}', 'x=1,2']);
+    expect(y.path).toBe('x');
+    expect(y.fixed).toEqual(['a.b=[0.1, 0.2]', 'c={kind: fixed, value: 4}']);
   });
 
   it('reads a range including its end, without binary round-off', () => {

@@ -1,0 +1,121 @@
+/**
+ * `holdfast compare BASE [VARIANT]`: two designs on the same scenarios (src/design/compare.ts).
+ * VARIANT is a second case file; without it the variant is BASE with the `--set` overrides.
+ * With both, `--set` changes the variant only (the design under test).
+ */
+import { basename, extname, resolve } from 'node:path';
+import type { Command } from 'commander';
+import { loadCase } from '../../case/load.js';
+import { runComparison } from '../../design/compare.js';
+import { driversText } from '../../design/designText.js';
+import { knownSummaryMetrics } from '../../design/outcomes.js';
+import { anyGateExceeded, checkGateMetrics, evaluateRiskGates } from '../../design/riskGate.js';
+import { RunError } from '../../errors.js';
+import { screeningCaution } from '../../results/manifest.js';
+import { exitCode, InterruptedError, usageError } from '../exit.js';
+import type { AddCommand } from '../frame.js';
+import { addOptions, commonRunOptions } from '../options.js';
+
+const stem = (p: string) => basename(p, extname(p));
+
+/** Default output folder: results/<base stem>-vs-<variant stem>/ (variant stem "variant" for --set). */
+export function defaultCompareDir(basePath: string, variantPath: string | undefined, cwd: string) {
+  return resolve(
+    cwd,
+    'results',
+    `${stem(basePath)}-vs-${variantPath ? stem(variantPath) : 'variant'}`,
+  );
+}
+
+export const addCompareCommand: AddCommand = (program: Command, frame) => {
+  const cmd = program
+    .command('compare')
+    .argument('<base>', 'case file of the base design')
+    .argument('[variant]', 'case file of the variant (omit it and give --set to vary the base)')
+    .summary('two designs on the same scenarios: paired differences')
+    .description(
+      'Runs both designs on the same seed and scenario ids (common random numbers), pairs the ' +
+        'scenarios and writes comparison.arrow with every summary metric, its difference and a ' +
+        'paired confidence interval, plus base/ and variant/ run folders with drivers.arrow. ' +
+        '--set changes the variant. --fail-if gates judge the variant. ' +
+        'Screening estimates, not engineering approval.',
+    );
+  addOptions(cmd, commonRunOptions);
+  cmd.action(
+    frame.action(async ([basePath, variantPath], options, io) => {
+      if (!variantPath && options.set.length === 0)
+        throw usageError(
+          'VARIANT',
+          'expected a variant case file or at least one --set PATH=VALUE to vary the base',
+        );
+      // check gates and load both cases before running anything: bad input exits 2, nothing written
+      checkGateMetrics(options.failIf, knownSummaryMetrics);
+      const base = await loadCase(resolve(io.cwd, basePath!));
+      const variant = await loadCase(resolve(io.cwd, variantPath ?? basePath!), options.set);
+      const outDir = options.out
+        ? resolve(io.cwd, options.out)
+        : defaultCompareDir(basePath!, variantPath, io.cwd);
+      const controller = new AbortController();
+      const stop = () => controller.abort();
+      process.once('SIGINT', stop);
+      process.once('SIGTERM', stop);
+      const progress = !options.quiet && !options.json && process.stderr.isTTY === true;
+      let outcome: Awaited<ReturnType<typeof runComparison>>;
+      try {
+        outcome = await runComparison(base, variant, {
+          outDir,
+          scenarios: options.scenarios,
+          seed: options.seed,
+          workers: options.workers,
+          shard: options.shard,
+          parquet: options.parquet,
+          signal: controller.signal,
+          baseName: stem(basePath!),
+          variantName: variantPath
+            ? stem(variantPath)
+            : `${stem(basePath!)} with ${options.set.join(', ')}`,
+          onProgress: progress
+            ? (design, done, total) => io.stderr(`\rholdfast compare: ${design} ${done}/${total}`)
+            : undefined,
+        });
+      } finally {
+        if (progress) io.stderr('\n');
+        process.removeListener('SIGINT', stop);
+        process.removeListener('SIGTERM', stop);
+      }
+      const c = outcome.comparison;
+      if (options.json) {
+        io.stdout(
+          `${JSON.stringify(
+            {
+              comparison: c?.rows ?? null,
+              scenarios: c?.nPairs ?? 0,
+              confidenceLevel: outcome.confidenceLevel,
+              base: outcome.base.summary,
+              variant: outcome.variant?.summary ?? null,
+            },
+            null,
+            2,
+          )}\n`,
+        );
+      } else if (!options.quiet) {
+        io.stdout(outcome.text);
+        if (outcome.drivers?.variant)
+          io.stdout(`Variant: ${driversText(outcome.drivers.variant, 3)}`);
+        io.stdout(`${screeningCaution}\n`);
+      }
+      for (const w of c?.warnings ?? []) io.stderr(`holdfast: ${w}\n`);
+      if (!c) {
+        const reason = (outcome.variant ?? outcome.base).stopReason;
+        if (reason === 'interrupted') throw new InterruptedError();
+        throw new RunError(`compare stopped: ${reason ?? 'a run ended partial'}`);
+      }
+      if (options.failIf.length > 0 && outcome.variant) {
+        const verdicts = evaluateRiskGates(outcome.variant.summary, options.failIf);
+        for (const v of verdicts) io.stderr(`holdfast: variant ${v.text}\n`);
+        if (anyGateExceeded(verdicts)) return exitCode.gateExceeded;
+      }
+      return exitCode.ok;
+    }),
+  );
+};

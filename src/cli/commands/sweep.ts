@@ -1,0 +1,104 @@
+/**
+ * `holdfast sweep CASE --set PATH=V1,V2,...` or `--set PATH=START:STOP:STEP`: one design
+ * parameter over several values on common random numbers (src/design/sweep.ts). Other `--set`
+ * entries with a single value are applied to every value. `--fail-if` gates judge every value.
+ */
+import { basename, extname, resolve } from 'node:path';
+import type { Command } from 'commander';
+import { knownSummaryMetrics } from '../../design/outcomes.js';
+import { anyGateExceeded, checkGateMetrics, evaluateRiskGates } from '../../design/riskGate.js';
+import { loadSweepCases, runSweep } from '../../design/sweep.js';
+import { parseSweepSets } from '../../design/sweepValues.js';
+import { RunError } from '../../errors.js';
+import { screeningCaution } from '../../results/manifest.js';
+import { exitCode, InterruptedError } from '../exit.js';
+import type { AddCommand } from '../frame.js';
+import { addOptions, commonRunOptions } from '../options.js';
+
+/** Default output folder: results/<case stem>-sweep-<last segment of the path>/. */
+export function defaultSweepDir(casePath: string, path: string, cwd: string): string {
+  const last = path.split('.').pop() ?? 'value';
+  const name = `${basename(casePath, extname(casePath))}-sweep-${last.replace(/[^A-Za-z0-9_-]+/g, '_')}`;
+  return resolve(cwd, 'results', name);
+}
+
+export const addSweepCommand: AddCommand = (program: Command, frame) => {
+  const cmd = program
+    .command('sweep')
+    .argument('<case>', 'case file (YAML or JSON)')
+    .summary('one design parameter over several values, common random numbers across them')
+    .description(
+      'Runs the case once per value of one field, given as --set PATH=V1,V2,... or ' +
+        '--set PATH=START:STOP:STEP (STOP included when on the grid), all on the same seed and ' +
+        'scenario ids, and writes sweep.arrow (one row per value, every summary metric with its ' +
+        'interval) and one run folder per value. The table points out the knee of the risk ' +
+        'curve where there is one. Screening estimates, not engineering approval.',
+    );
+  addOptions(cmd, commonRunOptions);
+  cmd.action(
+    frame.action(async ([casePath], options, io) => {
+      const spec = parseSweepSets(options.set);
+      checkGateMetrics(options.failIf, knownSummaryMetrics);
+      // every value is loaded and validated first: a bad value exits 2 with nothing written
+      const cases = await loadSweepCases(resolve(io.cwd, casePath!), spec);
+      const outDir = options.out
+        ? resolve(io.cwd, options.out)
+        : defaultSweepDir(casePath!, spec.path, io.cwd);
+      const controller = new AbortController();
+      const stop = () => controller.abort();
+      process.once('SIGINT', stop);
+      process.once('SIGTERM', stop);
+      const progress = !options.quiet && !options.json && process.stderr.isTTY === true;
+      let outcome: Awaited<ReturnType<typeof runSweep>>;
+      try {
+        outcome = await runSweep(spec.path, cases, {
+          outDir,
+          scenarios: options.scenarios,
+          seed: options.seed,
+          workers: options.workers,
+          shard: options.shard,
+          parquet: options.parquet,
+          signal: controller.signal,
+          onProgress: progress
+            ? (k, done, total) =>
+                io.stderr(`\rholdfast sweep: value ${k + 1}/${cases.length} ${done}/${total}`)
+            : undefined,
+        });
+      } finally {
+        if (progress) io.stderr('\n');
+        process.removeListener('SIGINT', stop);
+        process.removeListener('SIGTERM', stop);
+      }
+      if (options.json)
+        io.stdout(
+          `${JSON.stringify(
+            {
+              parameter: spec.path,
+              points: outcome.points,
+              knee: outcome.knee ?? null,
+              kneeMetric: outcome.kneeMetric,
+              confidenceLevel: outcome.confidenceLevel,
+            },
+            null,
+            2,
+          )}\n`,
+        );
+      else if (!options.quiet) io.stdout(`${outcome.text}${screeningCaution}\n`);
+      if (!outcome.sweepPath) {
+        const reason = outcome.runs[outcome.runs.length - 1]?.stopReason;
+        if (reason === 'interrupted') throw new InterruptedError();
+        throw new RunError(`sweep stopped: ${reason ?? 'a run ended partial'}`);
+      }
+      if (options.failIf.length > 0) {
+        let exceeded = false;
+        for (const p of outcome.points) {
+          const verdicts = evaluateRiskGates(p.rows, options.failIf);
+          for (const v of verdicts) io.stderr(`holdfast: ${spec.path}=${p.valueText}: ${v.text}\n`);
+          exceeded ||= anyGateExceeded(verdicts);
+        }
+        if (exceeded) return exitCode.gateExceeded;
+      }
+      return exitCode.ok;
+    }),
+  );
+};
