@@ -52,6 +52,12 @@ export const shutdownCauses: readonly string[] = [
   'other',
 ];
 export const eventStatuses: readonly string[] = ['ok', 'shutdown', 'failed'];
+export const voltageStatuses: readonly string[] = [
+  'ok',
+  'voltage collapse',
+  'no solution',
+  'not assessed',
+];
 
 const f64 = (group: ColumnGroup, name: string, unit: string, description: string): ColumnSpec => ({
   name,
@@ -111,6 +117,22 @@ export const allColumns: readonly ColumnSpec[] = [
   f64('sample', 'dip_retained_pu', 'pu', 'retained voltage at the PCC during the fault'),
   f64('sample', 'dip_duration_s', 's', 'duration of the voltage dip before separation'),
   f64('sample', 'outage_duration_h', 'h', 'sampled duration of the utility outage'),
+  // ride-through of the fault's voltage dip (src/grid/voltage/ride-through.ts)
+  {
+    name: 'units_tripped_by_dip',
+    kind: 'int16',
+    unit: '1',
+    description:
+      'inverter sources lost to the voltage dip before separation (IEEE 1547-2018 ride-through)',
+    group: 'ride-through',
+  },
+  {
+    name: 'units_in_cessation',
+    kind: 'int16',
+    unit: '1',
+    description: 'inverter sources in momentary cessation after the dip (return after a delay)',
+    group: 'ride-through',
+  },
   // frequency event (src/grid/frequency)
   f64(
     'frequency',
@@ -166,6 +188,101 @@ export const allColumns: readonly ColumnSpec[] = [
       "frequency simulation status: 'ok', 'shutdown', or 'failed' (the integrator gave up; the row's figures are those reached)",
     group: 'frequency',
     categories: eventStatuses,
+  },
+  // island voltage, damping and limits after the event (src/grid/voltage/island-voltage.ts)
+  {
+    name: 'frequency_violation',
+    kind: 'bool',
+    unit: '1',
+    description:
+      'nadir below or zenith above the frequency limits (limits.frequencyMinHz/MaxHz or their default band), or RoCoF above limits.rocofMaxHzPerS when set',
+    group: 'voltage',
+  },
+  f64(
+    'voltage',
+    'v_min_pu',
+    'pu',
+    'lowest bus voltage of the settled island (NaN when not assessed)',
+  ),
+  {
+    name: 'v_min_bus',
+    kind: 'int16',
+    unit: '1',
+    description: 'index of the lowest-voltage bus in case.network.buses (-1 when not assessed)',
+    group: 'voltage',
+  },
+  f64(
+    'voltage',
+    'v_max_pu',
+    'pu',
+    'highest bus voltage of the settled island (NaN when not assessed)',
+  ),
+  {
+    name: 'voltage_violation',
+    kind: 'bool',
+    unit: '1',
+    description: 'a bus voltage outside the limits band, or no power-flow solution',
+    group: 'voltage',
+  },
+  f64(
+    'voltage',
+    'min_damping_ratio',
+    '1',
+    'damping ratio of the least damped electromechanical mode (NaN when not assessed)',
+  ),
+  f64(
+    'voltage',
+    'loading_margin',
+    '1',
+    'load factor at the nose point of the island (loadability; NaN when not assessed)',
+  ),
+  {
+    name: 'voltage_status',
+    kind: 'category',
+    unit: '1',
+    description:
+      "power-flow status: 'ok', 'voltage collapse', 'no solution' or 'not assessed' (shut down)",
+    group: 'voltage',
+    categories: voltageStatuses,
+  },
+  // outage hours (src/energy/outage.ts)
+  f64('outage', 'outage_h', 'h', 'how long the grid stayed away'),
+  f64(
+    'outage',
+    'survived_h',
+    'h',
+    'hours the island kept its critical load (outage_h if never lost)',
+  ),
+  f64('outage', 'unserved_kwh', 'kWh', 'energy demanded but not served over the outage, all tiers'),
+  f64('outage', 'unserved_critical_kwh', 'kWh', 'of which critical load'),
+  f64('outage', 'lol_h', 'h', 'hours with any load unserved (loss-of-load duration)'),
+  f64('outage', 'fuel_used_l', 'L', 'diesel burnt by gensets with a fuel curve'),
+  f64(
+    'outage',
+    'min_soc',
+    '1',
+    'lowest battery state of charge over the outage (NaN without a battery)',
+  ),
+  {
+    name: 'contingencies',
+    kind: 'int16',
+    unit: '1',
+    description: 'unit failures during the outage that triggered a frequency event',
+    group: 'outage',
+  },
+  {
+    name: 'critical_lost',
+    kind: 'bool',
+    unit: '1',
+    description: 'critical load went unserved at some time (shutdown included)',
+    group: 'outage',
+  },
+  {
+    name: 'shutdown_any_time',
+    kind: 'bool',
+    unit: '1',
+    description: 'the island shut down at some time of the outage, the frequency event included',
+    group: 'outage',
   },
 ];
 

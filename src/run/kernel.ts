@@ -13,10 +13,14 @@
  * transferred to the main thread and cannot be reused).
  */
 import type { Case } from '../case/schema.js';
+import { compileOutage, OutageResult, simulateOutage } from '../energy/outage.js';
 import { RunError } from '../errors.js';
 import { EventResult } from '../grid/frequency/event-result.js';
 import { compileIsland } from '../grid/frequency/island.js';
 import { type EventOptions, simulateEvent } from '../grid/frequency/simulate.js';
+import { assessIsland, compileNetwork, VoltageResult } from '../grid/voltage/island-voltage.js';
+import { resolveLimits } from '../grid/voltage/limit-bands.js';
+import { applyRideThrough, compileRideThrough } from '../grid/voltage/ride-through.js';
 import {
   allocateBatch,
   type ColumnBatch,
@@ -26,6 +30,7 @@ import {
   eventStatuses,
   setInt64,
   shutdownCauses,
+  voltageStatuses,
 } from '../results/columns.js';
 import { monthOfHour } from '../sample/calendar.js';
 import { compileSampler, sampleScenario } from '../sample/sampler.js';
@@ -53,7 +58,7 @@ export interface ScenarioKernel {
 
 /** The column groups this build produces, in kernel order. */
 export function kernelGroups(): ColumnGroup[] {
-  return ['core', 'sample', 'frequency'];
+  return ['core', 'sample', 'ride-through', 'frequency', 'voltage', 'outage'];
 }
 
 /** Indices of the sources of one kind, for the per-kind sums of the sample columns. */
@@ -87,6 +92,15 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
     horizonS: c.monteCarlo.horizonS,
     rocofWindowS: c.monteCarlo.rocofWindowS,
   };
+  const rideThrough = compileRideThrough(c);
+  const network = compileNetwork(c);
+  const vr = new VoltageResult();
+  const limits = resolveLimits(c);
+  const rocofLimit = c.limits.rocofMaxHzPerS ?? Number.POSITIVE_INFINITY;
+  const outage = compileOutage(c, sampler, island);
+  const out = new OutageResult(c.sources.length, c.loads.length);
+  const voltageCode = new Map(voltageStatuses.map((name, k) => [name, k]));
+  const notAssessed = voltageCode.get('not assessed')!;
   const causeCode = new Map(shutdownCauses.map((name, k) => [name, k]));
   const otherCause = causeCode.get('other')!;
   const statusCode = new Map(eventStatuses.map((name, k) => [name, k]));
@@ -119,6 +133,26 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
     const cause = col['shutdown_cause'] as Int8Array;
     const tripped = col['units_tripped'] as Int16Array;
     const status = col['event_status'] as Int8Array;
+    const dipTrips = col['units_tripped_by_dip'] as Int16Array;
+    const ceased = col['units_in_cessation'] as Int16Array;
+    const fViolation = col['frequency_violation'] as Uint8Array;
+    const vMin = col['v_min_pu'] as Float64Array;
+    const vMinBus = col['v_min_bus'] as Int16Array;
+    const vMax = col['v_max_pu'] as Float64Array;
+    const vViolation = col['voltage_violation'] as Uint8Array;
+    const damping = col['min_damping_ratio'] as Float64Array;
+    const margin = col['loading_margin'] as Float64Array;
+    const vStatus = col['voltage_status'] as Int8Array;
+    const outH = col['outage_h'] as Float64Array;
+    const survivedH = col['survived_h'] as Float64Array;
+    const unservedKwh = col['unserved_kwh'] as Float64Array;
+    const unservedCritKwh = col['unserved_critical_kwh'] as Float64Array;
+    const lolH = col['lol_h'] as Float64Array;
+    const fuelL = col['fuel_used_l'] as Float64Array;
+    const minSoc = col['min_soc'] as Float64Array;
+    const contingencies = col['contingencies'] as Int16Array;
+    const criticalLost = col['critical_lost'] as Uint8Array;
+    const shutdownAny = col['shutdown_any_time'] as Uint8Array;
     for (let row = 0; row < count; row++) {
       const id = firstId + row;
       if (id === faults.throwAtScenarioId)
@@ -126,7 +160,10 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
       if (id === faults.crashAtScenarioId) process.exit(70);
       try {
         sampleScenario(sampler, seed, id, sc);
+        applyRideThrough(rideThrough, sc);
         simulateEvent(island, sc, eventOpts, ev);
+        assessIsland(network, sc, ev, vr);
+        simulateOutage(outage, sc, ev, out);
       } catch (err) {
         throw new RunError(`scenario ${id}: ${(err as Error).message}`, { cause: err });
       }
@@ -171,6 +208,37 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
       cause[row] = ev.shutdown ? (causeCode.get(ev.shutdownCause) ?? otherCause) : 0;
       tripped[row] = ev.unitsTripped;
       status[row] = statusCode.get(ev.status)!;
+      let dipTripped = 0;
+      let inCessation = 0;
+      for (let i = 0; i < sc.sourceCount; i++) {
+        dipTripped += sc.trippedAtSeparation[i]!;
+        if (sc.cessationS[i]! > 0) inCessation++;
+      }
+      dipTrips[row] = dipTripped;
+      ceased[row] = inCessation;
+      fViolation[row] =
+        ev.nadirHz < limits.frequencyMinHz ||
+        ev.zenithHz > limits.frequencyMaxHz ||
+        ev.rocofMaxHzPerS > rocofLimit
+          ? 1
+          : 0;
+      vStatus[row] = vr.assessed ? voltageCode.get(vr.status)! : notAssessed;
+      vMin[row] = vr.assessed ? vr.vMinPu : Number.NaN;
+      vMinBus[row] = vr.assessed ? vr.vMinBus : -1;
+      vMax[row] = vr.assessed ? vr.vMaxPu : Number.NaN;
+      vViolation[row] = vr.voltageViolation ? 1 : 0;
+      damping[row] = vr.assessed ? vr.minDampingRatio : Number.NaN;
+      margin[row] = vr.assessed ? vr.loadingMargin : Number.NaN;
+      outH[row] = out.outageH;
+      survivedH[row] = out.survivedH;
+      unservedKwh[row] = out.unservedKwh;
+      unservedCritKwh[row] = out.unservedCriticalKwh;
+      lolH[row] = out.lolH;
+      fuelL[row] = out.fuelUsedL;
+      minSoc[row] = out.minSoc;
+      contingencies[row] = out.contingencies;
+      criticalLost[row] = out.criticalLost ? 1 : 0;
+      shutdownAny[row] = out.shutdown ? 1 : 0;
     }
     return batch;
   }
