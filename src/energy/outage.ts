@@ -339,6 +339,7 @@ function advanceSegment(
 
   // Where the dispatch stops being valid: a battery at its floor or ceiling, a tank dry.
   let limiter = -1;
+  let limiterH = 0;
   for (let i = 0; i < m.sourceCount; i++) {
     const p = m.outKw[i]!;
     if (p === 0) continue;
@@ -357,9 +358,12 @@ function advanceSegment(
     if (tH + dtH < segEnd) {
       segEnd = tH + dtH;
       limiter = i;
+      limiterH = dtH;
     }
   }
-  const h = segEnd - tH;
+  // The exact duration when a state limit ends the segment (a difference of absolute times would
+  // lose digits for short segments late in a long outage).
+  const h = limiter >= 0 ? limiterH : segEnd - tH;
 
   let sourcesKwh = (f.renewableKw + f.gensetKw + f.fuelCellKw) * h;
   let storedKwh = 0;
