@@ -2,6 +2,12 @@
  * Loadability margin of the island: the factor lambda by which every load can grow at constant
  * power factor before the power flow has no solution (the nose point of the P-V curve).
  *
+ * Load model: the growth is at constant power and constant power factor from the operating
+ * point's actual demand P0 V^alpha: voltage-dependent loads are taken as restored to constant
+ * power in the time frame of voltage stability (thermostats, motors re-accelerating; load
+ * restoration, Van Cutsem & Vournas, Voltage Stability of Electric Power Systems, Kluwer 1998,
+ * ch. 4, from memory). This also makes the nose exist for impedance-like loads.
+ *
  * Method: bracket the nose by doubling lambda from the operating point, then bisect on lambda;
  * a sweep that reports voltage collapse (a branch discriminant stays negative, see
  * radial-flow.ts) or does not converge counts as beyond the nose. Each trial warm-starts from the
@@ -46,6 +52,8 @@ export const defaultMarginOptions: MarginOptions = {
 export class MarginWorkspace {
   readonly vBest: Float64Array;
   readonly qBest: Float64Array;
+  loadP0: Float64Array = new Float64Array(0);
+  loadQ0: Float64Array = new Float64Array(0);
   constructor(busCount: number) {
     this.vBest = new Float64Array(busCount);
     this.qBest = new Float64Array(busCount);
@@ -54,8 +62,8 @@ export class MarginWorkspace {
 
 /**
  * The loading margin of the flow's present inputs (loads, generation, growth shares); expects the
- * flow to hold the converged base solution (lambda = 1). Leaves the flow's loadScale at 1 but its
- * voltages at the last trial: read the base results before calling.
+ * flow to hold the converged base solution (lambda = 1). Restores the loads and loadScale but
+ * leaves the voltages at the last trial: read the base results before calling.
  */
 export function loadingMargin(
   flow: RadialFlow,
@@ -65,16 +73,41 @@ export function loadingMargin(
 ): number {
   ws.vBest.set(flow.vPu);
   ws.qBest.set(flow.pvQ);
+  const net = flow.net;
+  if (ws.loadP0.length !== net.loadCount) {
+    ws.loadP0 = new Float64Array(net.loadCount);
+    ws.loadQ0 = new Float64Array(net.loadCount);
+  }
+  // freeze each load at its operating-point demand, as constant power
+  ws.loadP0.set(flow.loadP0);
+  ws.loadQ0.set(flow.loadQ0);
+  for (let l = 0; l < net.loadCount; l++) {
+    const v = flow.vPu[net.loadBus[l]!]!;
+    flow.loadP0[l] = flow.loadP0[l]! * v ** net.loadExpP[l]!;
+    flow.loadQ0[l] = flow.loadQ0[l]! * v ** net.loadExpQ[l]!;
+  }
+  flow.constantPowerLoads = true;
+  const lambda = searchNose(flow, tree, ws, opts);
+  flow.constantPowerLoads = false;
+  flow.loadP0.set(ws.loadP0);
+  flow.loadQ0.set(ws.loadQ0);
+  flow.loadScale = 1;
+  return lambda;
+}
+
+function searchNose(
+  flow: RadialFlow,
+  tree: RadialTree,
+  ws: MarginWorkspace,
+  opts: MarginOptions,
+): number {
   let lo = 1;
   let hi = 2;
   let bracketed = false;
   while (!bracketed) {
     if (trial(flow, tree, ws, hi, opts)) {
       lo = hi;
-      if (hi >= opts.maxFactor) {
-        flow.loadScale = 1;
-        return opts.maxFactor;
-      }
+      if (hi >= opts.maxFactor) return opts.maxFactor;
       hi = Math.min(2 * hi, opts.maxFactor);
     } else {
       bracketed = true;
@@ -85,7 +118,6 @@ export function loadingMargin(
     if (trial(flow, tree, ws, mid, opts)) lo = mid;
     else hi = mid;
   }
-  flow.loadScale = 1;
   return lo;
 }
 

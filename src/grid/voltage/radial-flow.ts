@@ -54,6 +54,8 @@ export class RadialFlow {
   /** Per bus: share of the load growth (loadScale - 1) picked up there (non-root buses). */
   readonly growthShare: Float64Array;
   loadScale = 1;
+  /** Treat every load as constant power (exponents 0); the loading margin search sets it. */
+  constantPowerLoads = false;
 
   rootV0Pu = 1;
   /** Root Q-V droop, pu voltage per pu reactive power on the system base. */
@@ -159,11 +161,19 @@ export class RadialFlow {
         sumQ[b] = -this.genQ[b]!;
       }
       for (let k = 0; k < this.pvCount; k++) sumQ[this.pvBus[k]!]! -= this.pvQ[k]!;
-      for (let l = 0; l < net.loadCount; l++) {
-        const b = net.loadBus[l]!;
-        const vb = v[b]!;
-        sumP[b]! += this.loadP0[l]! * scale * voltagePower(vb, net.loadExpP[l]!);
-        sumQ[b]! += this.loadQ0[l]! * scale * voltagePower(vb, net.loadExpQ[l]!);
+      if (this.constantPowerLoads) {
+        for (let l = 0; l < net.loadCount; l++) {
+          const b = net.loadBus[l]!;
+          sumP[b]! += this.loadP0[l]! * scale;
+          sumQ[b]! += this.loadQ0[l]! * scale;
+        }
+      } else {
+        for (let l = 0; l < net.loadCount; l++) {
+          const b = net.loadBus[l]!;
+          const vb = v[b]!;
+          sumP[b]! += this.loadP0[l]! * scale * voltagePower(vb, net.loadExpP[l]!);
+          sumQ[b]! += this.loadQ0[l]! * scale * voltagePower(vb, net.loadExpQ[l]!);
+        }
       }
       // backward sweep: leaves first
       let losses = 0;
@@ -213,7 +223,7 @@ export class RadialFlow {
         }
         const vj = Math.sqrt(vj2);
         if (vj < COLLAPSE_VOLTAGE_PU) collapsed = true;
-        v[j] = vj < COLLAPSE_VOLTAGE_PU ? COLLAPSE_VOLTAGE_PU : vj;
+        v[j] = Math.max(vj, COLLAPSE_VOLTAGE_PU);
         const dv = Math.abs(v[j]! - this.vOld[j]!);
         if (dv > maxDv) maxDv = dv;
       }
@@ -295,7 +305,7 @@ export class RadialFlow {
       if (!this.active[k]) continue;
       const qMax = this.pvQMaxPu[k]!;
       const q = this.pvQ[k]! + rhs[a++]!;
-      this.pvQ[k] = q > qMax ? qMax : q < -qMax ? -qMax : q;
+      this.pvQ[k] = Math.min(Math.max(q, -qMax), qMax);
     }
     return worst;
   }

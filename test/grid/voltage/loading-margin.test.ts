@@ -1,0 +1,123 @@
+import { describe, expect, it } from 'vitest';
+import { loadingMargin, MarginWorkspace } from '../../../src/grid/voltage/loading-margin.js';
+import { compileNetworkData } from '../../../src/grid/voltage/network.js';
+import { FLOW_OK, RadialFlow } from '../../../src/grid/voltage/radial-flow.js';
+import { baranWuCase, parseCase } from './fixtures.js';
+
+/** An invented two-bus line: stiff source at A, one constant-power load at B. */
+function twoBus(rPu: number, xPu: number, loadKw: number, powerFactor: number) {
+  const c = parseCase({
+    name: 'Invented two-bus line',
+    invented: true,
+    system: { frequencyHz: 50, voltageKv: 11, baseKva: 1000 },
+    sources: [
+      { id: 'src', kind: 'genset', bus: 'A', ratingKw: 5000, inertiaS: 2, voltageDroopPu: 0 },
+    ],
+    loads: [
+      {
+        id: 'ld',
+        bus: 'B',
+        tier: 'critical',
+        peakKw: loadKw,
+        powerFactor,
+        voltageExponentP: 0,
+        voltageExponentQ: 0,
+      },
+    ],
+    network: {
+      pccBus: 'A',
+      buses: [{ id: 'A' }, { id: 'B' }],
+      branches: [{ from: 'A', to: 'B', rPu, xPu }],
+    },
+    events: { islandingRatePerYear: 1, outageDurationH: { kind: 'fixed', value: 1 } },
+  });
+  const net = compileNetworkData(c);
+  const flow = new RadialFlow(net);
+  flow.resetInjections();
+  flow.loadP0[0] = loadKw / 1000;
+  flow.loadQ0[0] = (loadKw / 1000) * net.loadTanPhi[0]!;
+  flow.flatStart();
+  return { net, flow };
+}
+
+/**
+ * Maximum power deliverable through Z = |Z| angle theta to a load of power-factor angle phi from
+ * a source E: S_max = E^2 / (2 |Z| (1 + cos(theta - phi))). Van Cutsem & Vournas, Voltage
+ * Stability of Electric Power Systems, Kluwer 1998, ch. 2 (from memory); it follows from the
+ * receiving-end voltage quadratic having a double root.
+ */
+function closedFormSmaxPu(rPu: number, xPu: number, powerFactor: number): number {
+  const z = Math.hypot(rPu, xPu);
+  const theta = Math.atan2(xPu, rPu);
+  const phi = Math.acos(powerFactor);
+  return 1 / (2 * z * (1 + Math.cos(theta - phi)));
+}
+
+const tight = { tolPu: 1e-10, maxIter: 200, relTol: 1e-6, maxFactor: 1000 };
+
+describe('loading margin', () => {
+  for (const [r, x, pf] of [
+    [0.05, 0.1, 0.9],
+    [0.1, 0.04, 0.95],
+    [0.02, 0.2, 1],
+  ] as const) {
+    it(`finds the closed-form nose of a two-bus line (r ${r}, x ${x}, pf ${pf})`, () => {
+      const loadKw = 500;
+      const { net, flow } = twoBus(r, x, loadKw, pf);
+      expect(flow.solve(net.trees[0]!, 1e-10, 100)).toBe(FLOW_OK);
+      const lambda = loadingMargin(flow, net.trees[0]!, new MarginWorkspace(2), tight);
+      const sLoadPu = loadKw / 1000 / pf;
+      const expected = closedFormSmaxPu(r, x, pf) / sLoadPu;
+      // bisection to 1e-6 relative, from below: lambda in [expected (1 - 1e-6), expected]
+      expect(lambda).toBeLessThanOrEqual(expected * (1 + 1e-12));
+      expect(lambda).toBeGreaterThan(expected * (1 - 2e-6));
+    });
+  }
+
+  it('scales inversely with a uniform load increase on the 33-bus feeder (constant power)', () => {
+    const c = baranWuCase();
+    const net = compileNetworkData(c);
+    const flow = new RadialFlow(net);
+    const margins: number[] = [];
+    for (const k of [1, 1.5]) {
+      flow.resetInjections();
+      c.loads.forEach((l, i) => {
+        flow.loadP0[i] = (k * l.peakKw) / net.baseKva;
+        flow.loadQ0[i] = (k * l.peakKw * net.loadTanPhi[i]!) / net.baseKva;
+      });
+      flow.flatStart();
+      expect(flow.solve(net.trees[0]!, 1e-10, 100)).toBe(FLOW_OK);
+      const opts = { tolPu: 1e-9, maxIter: 2000, relTol: 1e-4, maxFactor: 50 };
+      margins.push(loadingMargin(flow, net.trees[0]!, new MarginWorkspace(net.busCount), opts));
+    }
+    // the nose is a fixed total load for constant-power loads: lambda(1.5 P) = lambda(P) / 1.5,
+    // each found to 1e-4 relative (plus the slow convergence right at the nose: 1e-3 allowed)
+    expect(margins[0]!).toBeGreaterThan(3);
+    expect(Math.abs(margins[1]! * 1.5 - margins[0]!) / margins[0]!).toBeLessThan(1e-3);
+  });
+
+  it('grows voltage-dependent loads at constant power from their operating-point demand', () => {
+    const { net, flow } = twoBus(0.05, 0.1, 500, 0.9);
+    // constant impedance: P = P0 V^2; the margin is that of the demand actually drawn
+    net.loadExpP[0] = 2;
+    net.loadExpQ[0] = 2;
+    flow.flatStart();
+    expect(flow.solve(net.trees[0]!, 1e-12, 200)).toBe(FLOW_OK);
+    const v = flow.vPu[1]!;
+    const sDrawnPu = (0.5 / 0.9) * v * v;
+    const lambda = loadingMargin(flow, net.trees[0]!, new MarginWorkspace(2), tight);
+    const expected = closedFormSmaxPu(0.05, 0.1, 0.9) / sDrawnPu;
+    expect(lambda).toBeLessThanOrEqual(expected * (1 + 1e-9));
+    expect(lambda).toBeGreaterThan(expected * (1 - 2e-6));
+    // the loads are restored afterwards
+    expect(flow.loadP0[0]).toBe(0.5);
+    expect(flow.loadScale).toBe(1);
+  });
+
+  it('returns the search cap when the nose lies beyond it', () => {
+    const { net, flow } = twoBus(0.001, 0.002, 10, 1);
+    flow.solve(net.trees[0]!, 1e-10, 100);
+    const opts = { tolPu: 1e-8, maxIter: 400, relTol: 1e-3, maxFactor: 20 };
+    expect(loadingMargin(flow, net.trees[0]!, new MarginWorkspace(2), opts)).toBe(20);
+  });
+});
