@@ -103,10 +103,19 @@ export function editDistance(a: string, b: string): number {
   return previous[t.length]!;
 }
 
+/** How far a candidate is from a word: one containing the other counts as a single edit. */
+function closeness(word: string, candidate: string): number {
+  const w = word.toLowerCase();
+  const c = candidate.toLowerCase();
+  if (w === c) return 0;
+  if (c.includes(w) || w.includes(c)) return 1;
+  return editDistance(w, c) + 1;
+}
+
 /** The `count` candidates nearest to `word`, nearest first. */
 export function nearest(word: string, candidates: readonly string[], count = 3): string[] {
   return [...candidates]
-    .map((c) => ({ c, d: editDistance(word, c) }))
+    .map((c) => ({ c, d: closeness(word, c) }))
     .sort((x, y) => x.d - y.d || x.c.localeCompare(y.c))
     .slice(0, count)
     .map((x) => x.c);
