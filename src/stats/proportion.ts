@@ -138,7 +138,9 @@ export function kishEffectiveSize(sumWeights: number, sumSquaredWeights: number)
     throw new RangeError(
       `kishEffectiveSize: expected positive weight sums, got ${sumWeights}, ${sumSquaredWeights}`,
     );
-  return (sumWeights * sumWeights) / sumSquaredWeights;
+  // sum w * (sum w / sum w^2), not (sum w)^2 / sum w^2: with unit weights it is exactly n even
+  // where n^2 would round (n > 9.4e7).
+  return sumWeights * (sumWeights / sumSquaredWeights);
 }
 
 /** Sums over the rows of a weighted sample for one indicator y in {0, 1}. */
@@ -163,11 +165,17 @@ export function weightedProportionInterval(
 ): WeightedProportionInterval {
   const nEff = kishEffectiveSize(sums.sumWeights, sums.sumSquaredWeights);
   const p = Math.min(1, Math.max(0, sums.sumEventWeights / sums.sumWeights));
-  // With equal weights nEff = n and p nEff = x exactly when w = 1; events at 0 or all rows
-  // stay exact so the x = 0 / x = n limits apply.
-  const events = p === 0 ? 0 : p === 1 ? nEff : p * nEff;
+  // x_eff = p n_eff, formed as sum(w y) * (sum w / sum w^2): with unit weights it is exactly
+  // the event count, so plain sampling gets exactly the plain interval.
+  const events = Math.min(nEff, sums.sumEventWeights * (sums.sumWeights / sums.sumSquaredWeights));
   const interval = proportionInterval(events, nEff, confidenceLevel, method);
-  return { ...interval, estimate: p, effectiveSize: nEff };
+  return {
+    estimate: p,
+    low: Math.min(p, interval.low),
+    high: Math.max(p, interval.high),
+    method: interval.method,
+    effectiveSize: nEff,
+  };
 }
 
 /** Rule of three: one-sided 95 % upper bound 3/n after zero events in n trials

@@ -129,6 +129,14 @@ describe('weighted proportions (Kish effective sample size)', () => {
     );
     expect(ones.low).toBe(plain.low);
     expect(ones.high).toBe(plain.high);
+    // also at study sizes where n^2 would round (n > 9.4e7)
+    const big = weightedProportionInterval(
+      { sumWeights: 3e8, sumSquaredWeights: 3e8, sumEventWeights: 12345 },
+      0.95,
+    );
+    expect(big.effectiveSize).toBe(3e8);
+    expect(big.low).toBe(wilsonInterval(12345, 3e8, 0.95).low);
+    expect(big.high).toBe(wilsonInterval(12345, 3e8, 0.95).high);
     const w = 0.37;
     const scaled = weightedProportionInterval(
       { sumWeights: 16 * w, sumSquaredWeights: 16 * w * w, sumEventWeights: 13 * w },
