@@ -5,12 +5,18 @@
 import { addCheckCommand } from './commands/check.js';
 import { addCompareCommand } from './commands/compare.js';
 import { addInitCommand } from './commands/init.js';
+import { addMergeCommand } from './commands/merge.js';
+import { addReplayCommand } from './commands/replay.js';
+import { addRunCommand } from './commands/run.js';
 import { addSchemaCommand } from './commands/schema.js';
 import { addSweepCommand } from './commands/sweep.js';
 import type { AddCommand } from './frame.js';
 
 export const addCommands: readonly AddCommand[] = [
   addCheckCommand,
+  addRunCommand,
+  addReplayCommand,
+  addMergeCommand,
   addSchemaCommand,
   addInitCommand,
   addCompareCommand,
