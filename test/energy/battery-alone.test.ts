@@ -110,3 +110,47 @@ describe('a battery alone at constant load', () => {
     );
   });
 });
+
+describe('a battery charged from a surplus', () => {
+  it('stores P * eta_c per hour, eta_c = sqrt(eta_rt), until its ceiling', () => {
+    // Invented: 100 kW of PV, 20 kW of load, a 200 kW / 400 kWh battery at 20 %, eta_rt = 0.81.
+    const c = inventedCase(
+      [
+        {
+          id: 'bess',
+          bus: 'main',
+          kind: 'battery',
+          ratingKw: 200,
+          energyKwh: 400,
+          roundTripEfficiency: 0.81,
+          socMaxFraction: 0.9,
+        },
+        {
+          id: 'pv',
+          bus: 'main',
+          kind: 'pv',
+          ratingKw: 100,
+          resource: { kind: 'parametric', latitudeDeg: 10 },
+        },
+      ],
+      [load('ward', 'critical', 20)],
+    );
+    const cond = constantConditions([20], [200, 100]);
+    const m = buildOutageModel(c, new FakeHooks(c, 0, cond));
+    const ev = new FakeEvent(2, 1);
+    ev.socAtEnd[0] = 0.2;
+    const out = new OutageResult(2, 1);
+    const t0H = 60 / 3600;
+    // 3 h: SoC = 0.2 + 80 * 0.9 * (3 - t0) / 400, below the ceiling.
+    simulateOutage(m, scenarioFor(c, 0, 3, cond), ev, out);
+    expect(m.soc[0]).toBeCloseTo(0.2 + (80 * 0.9 * (3 - t0H)) / 400, 12);
+    expect(out.curtailedKwh).toBe(0);
+    expect(out.storageLossKwh).toBeCloseTo(80 * 0.1 * (3 - t0H), 9);
+    // 10 h: full at t0 + (0.9 - 0.2) * 400 / (80 * 0.9) h, then the surplus is curtailed.
+    simulateOutage(m, scenarioFor(c, 0, 10, cond), ev, out);
+    const fullAtH = t0H + (0.7 * 400) / (80 * 0.9);
+    expect(m.soc[0]).toBe(0.9);
+    expect(out.curtailedKwh).toBeCloseTo(80 * (10 - fullAtH), 9);
+    expect(out.energyBalanceError).toBeLessThan(1e-9);
+  });
+});

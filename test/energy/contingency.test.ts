@@ -81,3 +81,36 @@ describe('a unit failure during the outage', () => {
     expect(out.contingencies).toBe(0);
   });
 });
+
+describe('the frequency event at separation', () => {
+  it('keeps its UFLS shedding until the first step ends, counted over the event too', () => {
+    const hooks = new FakeHooks(c, 0, cond);
+    const m = buildOutageModel(c, hooks);
+    const sc = scenarioFor(c, 0, 3, cond);
+    const ev = new FakeEvent(3, 2);
+    ev.socAtEnd[2] = 0.1;
+    ev.shedKw = 70;
+    ev.shedKwByTier[2] = 70;
+    ev.loadServedFraction[1] = 0;
+    const out = new OutageResult(3, 2);
+    simulateOutage(m, sc, ev, out);
+    expect(out.unservedKwh).toBeCloseTo(70 * 1, 9); // the event (t0) and the rest of hour 0
+    expect(out.lolH).toBeCloseTo(1, 12);
+    expect(out.criticalLost).toBe(false);
+  });
+
+  it('starts from the pre-separation state when the event failed numerically', () => {
+    const m = buildOutageModel(c, new FakeHooks(c, 0, cond));
+    const sc = scenarioFor(c, 0, 3, cond);
+    sc.socFraction[2] = 0.1;
+    const ev = new FakeEvent(3, 2);
+    ev.status = 'failed';
+    ev.runningAtEnd.fill(0);
+    ev.loadServedFraction.fill(0);
+    const out = new OutageResult(3, 2);
+    simulateOutage(m, sc, ev, out);
+    expect(out.shutdown).toBe(false);
+    expect(out.unservedKwh).toBe(0);
+    expect(out.servedKwh).toBeCloseTo(120 * 3, 9);
+  });
+});
