@@ -85,9 +85,15 @@ export interface NetworkModel {
   readonly data: NetworkData;
   readonly limits: ResolvedLimits;
   readonly flow: RadialFlow;
-  /** Voltages and angles of the last assessed operating point (before the margin search). */
+  /**
+   * Voltages, angles, PV outputs and branch powers of the last assessed operating point; the
+   * flow itself is also restored to it after the margin search.
+   */
   readonly baseVPu: Float64Array;
   readonly baseAngleRad: Float64Array;
+  readonly basePvQ: Float64Array;
+  readonly basePIn: Float64Array;
+  readonly baseQIn: Float64Array;
   readonly sync: SynchronisingNetwork;
   readonly margin: MarginWorkspace;
   readonly units: DroopUnits;
@@ -154,6 +160,9 @@ export function compileNetwork(c: Case): NetworkModel {
     flow: new RadialFlow(data),
     baseVPu: new Float64Array(n),
     baseAngleRad: new Float64Array(n),
+    basePvQ: new Float64Array(n),
+    basePIn: new Float64Array(n),
+    baseQIn: new Float64Array(n),
     sync,
     margin: new MarginWorkspace(n),
     units,
@@ -339,7 +348,20 @@ export function assessIsland(
   assessDamping(m, ev, root, rootSource, out);
 
   if (st === FLOW_OK) {
+    const { rootPPu, rootQPu, lossesPu } = flow;
+    m.basePvQ.set(flow.pvQ);
+    m.basePIn.set(flow.branchPIn);
+    m.baseQIn.set(flow.branchQIn);
     out.loadingMargin = loadingMargin(flow, tree, m.margin, defaultMarginOptions);
+    // leave the flow at the operating point for callers that read it (holdfast flow)
+    flow.vPu.set(m.baseVPu);
+    flow.angleRad.set(m.baseAngleRad);
+    flow.pvQ.set(m.basePvQ);
+    flow.branchPIn.set(m.basePIn);
+    flow.branchQIn.set(m.baseQIn);
+    flow.rootPPu = rootPPu;
+    flow.rootQPu = rootQPu;
+    flow.lossesPu = lossesPu;
   }
   out.lowMargin = out.loadingMargin < m.limits.loadingMarginMin;
 }
