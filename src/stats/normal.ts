@@ -1,6 +1,6 @@
 /**
  * The standard normal distribution: CDF Phi(x), upper tail Q(x) = 1 - Phi(x) and quantile
- * Phi^-1(p), to about 1e-15 relative accuracy (checked against jstat in the tests).
+ * Phi^-1(p), to about 1e-14 relative accuracy (checked against jstat in the tests).
  *
  * - |x| < 3: Phi(x) = 1/2 + phi(x) * sum_{k>=0} x^(2k+1) / (1*3*5*...*(2k+1)), a series with
  *   positive terms (G. Marsaglia, "Evaluating the normal distribution", J. Statistical Software
