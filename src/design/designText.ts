@@ -5,7 +5,8 @@
 import type { ComparisonRow } from './comparison.js';
 import type { DriverRow, DriversResult } from './drivers.js';
 import { minDriverEvents, topDrivers } from './drivers.js';
-import type { KneeResult } from './knee.js';
+import { outcomeDefinition } from './outcomes.js';
+import type { SweepKnee } from './sweep.js';
 
 /** "4.1 %", "0.052 %", "12 %". */
 export function percentText(x: number): string {
@@ -122,30 +123,36 @@ export interface SweepLine {
 export function sweepText(
   path: string,
   lines: readonly SweepLine[],
-  info: {
-    metrics: readonly string[];
-    knee: KneeResult | undefined;
-    kneeMetric: string;
-    level: number;
-    dir: string;
-  },
+  info: { metrics: readonly string[]; knees: readonly SweepKnee[]; level: number; dir: string },
 ): string {
+  const label = (m: string) => outcomeDefinition(m)?.label ?? m.replaceAll('_', ' ');
   const out = [`Sweep of ${path} (${levelText(info.level)} intervals, common random numbers):`];
   lines.forEach((l, i) => {
     const parts = info.metrics.map((m) => {
       const r = l.rows.find((x) => x.metric === m);
-      if (!r) return `${m} n/a`;
+      if (!r) return `${label(m)} n/a`;
       const f = isProbability(r) ? percentText : numberText;
-      return `${m.replaceAll('_', ' ')} ${f(r.estimate)} (${f(r.ciLow)} to ${f(r.ciHigh)})`;
+      return `${label(m)} ${f(r.estimate)} (${f(r.ciLow)} to ${f(r.ciHigh)})`;
     });
-    const mark = info.knee?.index === i ? '   <- knee' : '';
+    const at = info.knees.filter((k) => k.knee?.index === i).map((k) => label(k.metric));
+    const mark = at.length > 0 ? `   <- knee of ${at.join(', ')}` : '';
     out.push(`  ${path} = ${l.valueText}: ${parts.join(', ')}${mark}`);
   });
-  out.push(
-    info.knee
-      ? `Knee of ${info.kneeMetric} at ${path} = ${numberText(info.knee.x)}: past it each step buys much less (largest distance below the chord).`
-      : `No knee in ${info.kneeMetric}: the curve is straight, concave, or its change is within the statistical noise.`,
-  );
+  for (const k of info.knees) {
+    const e = k.endToEnd;
+    const change =
+      e && !Number.isNaN(e.diffCiLow)
+        ? `end to end ${pointsText(e.difference)} points (paired ${levelText(info.level)} CI ${pointsText(e.diffCiLow)} to ${pointsText(e.diffCiHigh)})`
+        : 'end-to-end change without a paired interval';
+    if (k.knee)
+      out.push(
+        `Knee of the ${label(k.metric)} at ${path} = ${numberText(k.knee.x)}: past it each step buys much less (${change}).`,
+      );
+    else
+      out.push(
+        `No knee in the ${label(k.metric)}: ${k.trend ? 'the curve is straight or concave' : 'no clear change from the smallest to the largest value'} (${change}).`,
+      );
+  }
   out.push(`Tables in ${info.dir}`);
   return `${out.join('\n')}\n`;
 }

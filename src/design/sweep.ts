@@ -6,16 +6,19 @@
  * the sweep with exit 2 before anything is written.
  *
  * Folder: <outDir>/<k>-<value>/ per value (complete run folders) and <outDir>/sweep.arrow.
- * Knee: see knee.ts; it is looked for in the headline metric (p_failure when the summary has it,
- * else p_shutdown), with the largest CI half-width along the curve as the noise floor.
+ * Knee: see knee.ts; it is looked for in the curves of p_load_shed, p_shutdown and p_failure,
+ * each only when its paired end-to-end change is clear of zero (sweepKnees).
  */
 import { join } from 'node:path';
 import { type LoadedCase, loadCase } from '../case/load.js';
 import type { ShardSpec } from '../run/plan.js';
 import { type RunOutcome, runAssessment } from '../run/run.js';
+import { sameDesign } from './compare.js';
+import { type ComparisonRow, compareDesigns } from './comparison.js';
 import { type SweepPoint, writeSweepArrow } from './designOutputs.js';
 import { sweepText } from './designText.js';
 import { findKnee, type KneeResult } from './knee.js';
+import { readScenarioFrame } from './scenarioFrame.js';
 import type { SweepSpec } from './sweepValues.js';
 
 export interface SweepCase {
@@ -49,8 +52,8 @@ export interface SweepOptions {
 export interface SweepOutcome {
   runs: RunOutcome[];
   points: SweepPoint[];
-  knee: KneeResult | undefined;
-  kneeMetric: string;
+  /** The knee of each headline metric's curve (see sweepKnees). */
+  knees: SweepKnee[];
   /** Undefined when a run stopped early (the later values were not run). */
   sweepPath: string | undefined;
   confidenceLevel: number;
@@ -92,26 +95,72 @@ export async function runSweep(
   const level = runs[0]?.manifest.confidenceLevel ?? first.monteCarlo.confidenceLevel;
   const complete = points.length === cases.length;
   const names = new Set(points.flatMap((p) => p.rows.map((r) => r.metric)));
-  const kneeMetric = names.has('p_failure') ? 'p_failure' : 'p_shutdown';
-  const curve = points.map((p) => ({
-    x: p.value ?? Number.NaN,
-    row: p.rows.find((r) => r.metric === kneeMetric),
-  }));
-  const noise = Math.max(
-    0,
-    ...curve.map((c) => (c.row ? (c.row.ciHigh - c.row.ciLow) / 2 : Number.POSITIVE_INFINITY)),
-  );
-  const knee =
-    complete && curve.every((c) => c.row)
-      ? findKnee(
-          curve.map((c) => ({ x: c.x, y: c.row!.estimate })),
-          { minChange: noise },
-        )
-      : undefined;
+  const kneeMetrics = ['p_load_shed', 'p_shutdown', 'p_failure'].filter((m) => names.has(m));
+  const knees = complete ? sweepKnees(kneeMetrics, points, cases, runs, level) : [];
   const sweepPath = complete ? writeSweepArrow(opts.outDir, path, points, level) : undefined;
   const shown = ['p_load_shed', 'p_shutdown', 'p_failure_in_year'].filter((m) => names.has(m));
   const text = complete
-    ? sweepText(path, points, { metrics: shown, knee, kneeMetric, level, dir: opts.outDir })
+    ? sweepText(path, points, { metrics: shown, knees, level, dir: opts.outDir })
     : `Sweep stopped early at ${path} = ${cases[points.length]?.valueText}; the run folders are marked partial and sweep.arrow was not written.\n`;
-  return { runs, points, knee, kneeMetric, sweepPath, confidenceLevel: level, text };
+  return { runs, points, knees, sweepPath, confidenceLevel: level, text };
+}
+
+export interface SweepKnee {
+  metric: string;
+  /** Undefined when the curve has no knee (or the values are not numbers). */
+  knee: KneeResult | undefined;
+  /** The paired difference between the largest and the smallest value, variant = largest. */
+  endToEnd: ComparisonRow | undefined;
+  /** True when that paired interval excludes zero: the curve really moves. */
+  trend: boolean;
+}
+
+/**
+ * The knee of each metric's curve. A knee is only looked for when the curve really moves: the
+ * paired interval of (metric at the largest value - metric at the smallest), on the same
+ * scenarios, must exclude zero. That is where common random numbers pay: the end-to-end change
+ * is judged on the discordant scenarios only, far more sharply than by the two separate
+ * intervals.
+ */
+function sweepKnees(
+  metrics: readonly string[],
+  points: readonly SweepPoint[],
+  cases: readonly SweepCase[],
+  runs: readonly RunOutcome[],
+  level: number,
+): SweepKnee[] {
+  if (points.length < 3 || points.some((p) => p.value === undefined))
+    return metrics.map((metric) => ({
+      metric,
+      knee: undefined,
+      endToEnd: undefined,
+      trend: false,
+    }));
+  let lo = 0;
+  let hi = 0;
+  points.forEach((p, i) => {
+    if (p.value! < points[lo]!.value!) lo = i;
+    if (p.value! > points[hi]!.value!) hi = i;
+  });
+  const comparison = compareDesigns({
+    base: readScenarioFrame(runs[lo]!.paths.scenarios),
+    variant: readScenarioFrame(runs[hi]!.paths.scenarios),
+    baseSummary: runs[lo]!.summary,
+    variantSummary: runs[hi]!.summary,
+    baseFailureDefinition: cases[lo]!.loaded.case.monteCarlo.failureDefinition,
+    variantFailureDefinition: cases[hi]!.loaded.case.monteCarlo.failureDefinition,
+    baseRatePerYear: cases[lo]!.loaded.case.events.islandingRatePerYear,
+    variantRatePerYear: cases[hi]!.loaded.case.events.islandingRatePerYear,
+    confidenceLevel: level,
+    identicalDesigns: sameDesign(cases[lo]!.loaded, cases[hi]!.loaded),
+  });
+  return metrics.map((metric) => {
+    const endToEnd = comparison.rows.find((r) => r.metric === metric);
+    const trend = endToEnd !== undefined && (endToEnd.diffCiLow > 0 || endToEnd.diffCiHigh < 0);
+    const curve = points.map((p) => ({
+      x: p.value!,
+      y: p.rows.find((r) => r.metric === metric)?.estimate ?? Number.NaN,
+    }));
+    return { metric, knee: trend ? findKnee(curve) : undefined, endToEnd, trend };
+  });
 }

@@ -75,8 +75,12 @@ export const addSweepCommand: AddCommand = (program: Command, frame) => {
             {
               parameter: spec.path,
               points: outcome.points,
-              knee: outcome.knee ?? null,
-              kneeMetric: outcome.kneeMetric,
+              knees: outcome.knees.map((k) => ({
+                metric: k.metric,
+                knee: k.knee ?? null,
+                trend: k.trend,
+                endToEnd: k.endToEnd ?? null,
+              })),
               confidenceLevel: outcome.confidenceLevel,
             },
             null,
