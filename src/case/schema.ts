@@ -135,11 +135,21 @@ export const unitTripSchema = z
     underFrequencyHz: positive()
       .optional()
       .describe('trip below this frequency after underFrequencyDelayS'),
-    underFrequencyDelayS: nonNegative().default(2),
-    overFrequencyHz: positive().optional(),
-    overFrequencyDelayS: nonNegative().default(2),
+    underFrequencyDelayS: nonNegative()
+      .default(2)
+      .describe(
+        'time below underFrequencyHz before the trip, s (seconds for small gensets, from memory)',
+      ),
+    overFrequencyHz: positive()
+      .optional()
+      .describe('trip above this frequency after overFrequencyDelayS'),
+    overFrequencyDelayS: nonNegative()
+      .default(2)
+      .describe('time above overFrequencyHz before the trip, s'),
     rocofHzPerS: positive().optional().describe('trip when |RoCoF| exceeds this for rocofDelayS'),
-    rocofDelayS: nonNegative().default(0.5),
+    rocofDelayS: nonNegative()
+      .default(0.5)
+      .describe('time above the RoCoF setting before the trip, s'),
   })
   .describe('unit protection (ANSI 81U/81O/81R); omitted settings never trip');
 
@@ -148,7 +158,7 @@ const rideThroughCategory = z
   .describe('IEEE 1547-2018 abnormal-performance category');
 
 const commonSource = {
-  id: id(),
+  id: id().describe('unique id of the source (letters, digits, _ . -); used by --set and outputs'),
   bus: id().describe('id of the bus the source connects to'),
   forcedOutageRate: fraction()
     .default(0.02)
@@ -169,8 +179,11 @@ const commonSource = {
 export const gensetSchema = z.strictObject({
   ...commonSource,
   kind: z.literal('genset'),
-  fuel: z.enum(['diesel', 'gas']).default('diesel'),
-  ratingKw: positive(),
+  fuel: z
+    .enum(['diesel', 'gas'])
+    .default('diesel')
+    .describe('diesel (fuel in L) or gas engine (m3)'),
+  ratingKw: positive().describe('active-power rating, kW'),
   ratingKva: positive()
     .optional()
     .describe('apparent-power rating; ratingKw / 0.8 if omitted (common practice, no source)'),
@@ -225,7 +238,9 @@ export const gensetSchema = z.strictObject({
   reversePowerFraction: fraction()
     .default(0.1)
     .describe('reverse-power trip threshold, fraction of rating (from memory)'),
-  reversePowerDelayS: nonNegative().default(2),
+  reversePowerDelayS: nonNegative()
+    .default(2)
+    .describe('reverse-power trip delay, s (from memory)'),
   trips: unitTripSchema.default({
     underFrequencyDelayS: 2,
     overFrequencyDelayS: 2,
@@ -242,30 +257,61 @@ export const gensetSchema = z.strictObject({
 export const batterySchema = z.strictObject({
   ...commonSource,
   kind: z.literal('battery'),
-  ratingKw: positive(),
-  ratingKva: positive().optional(),
-  energyKwh: positive(),
-  control: z.enum(['grid-forming', 'grid-following']).default('grid-forming'),
-  droopPu: finite().min(0.005).max(0.2).default(0.02).describe('P-f droop, pu'),
+  ratingKw: positive().describe('inverter active-power rating, kW'),
+  ratingKva: positive().optional().describe('inverter apparent-power rating; ratingKw if omitted'),
+  energyKwh: positive().describe('usable energy capacity at 100 % state of charge, kWh'),
+  control: z
+    .enum(['grid-forming', 'grid-following'])
+    .default('grid-forming')
+    .describe(
+      'grid-forming holds voltage and frequency itself; grid-following needs another source',
+    ),
+  droopPu: finite()
+    .min(0.005)
+    .max(0.2)
+    .default(0.02)
+    .describe('P-f droop, pu (2 %, from memory; IEEE 1547-2018 allows 2-5 % for DER)'),
   virtualInertiaS: nonNegative()
     .default(0)
     .describe('emulated inertia constant on the kVA rating, s'),
   responseTimeConstantS: positive()
     .default(0.05)
     .describe('inverter power loop lag, s (tens of ms, from memory)'),
-  socMinFraction: fraction().default(0.1),
-  socMaxFraction: fraction().default(0.95),
+  socMinFraction: fraction()
+    .default(0.1)
+    .describe('lowest state of charge the battery management allows (common practice, no source)'),
+  socMaxFraction: fraction()
+    .default(0.95)
+    .describe('highest state of charge the battery management allows (common practice, no source)'),
   socReserveFraction: fraction().default(0.3).describe('kept for islanding while grid-connected'),
   socAtEvent: distributionSchema
     .optional()
     .describe('state of charge at separation (fraction); reserve plus a beta spread if omitted'),
-  roundTripEfficiency: finite().gt(0).max(1).default(0.88),
+  socByHourOfDay: z
+    .array(fraction())
+    .length(24)
+    .optional()
+    .describe(
+      'time-of-day pattern: state of charge at separation for each hour 0-23 (local time); replaces socAtEvent',
+    ),
+  roundTripEfficiency: finite()
+    .gt(0)
+    .max(1)
+    .default(0.88)
+    .describe('AC round-trip efficiency (about 0.85-0.9 for Li-ion, from memory)'),
   gridConnectedMode: z
     .enum(['idle', 'charge-to-max', 'peak-shave', 'self-consume'])
-    .default('idle'),
+    .default('idle')
+    .describe(
+      'what the battery does while grid-connected (sets its output and charge at separation)',
+    ),
   rideThrough: rideThroughCategory.default('II'),
   reactiveKvarMax: positive().optional(),
-  voltageDroopPu: finite().min(0).max(0.2).default(0.04),
+  voltageDroopPu: finite()
+    .min(0)
+    .max(0.2)
+    .default(0.04)
+    .describe('Q-V droop, pu voltage per pu reactive power'),
   trips: unitTripSchema.optional().describe('IEEE 1547-2018 Table 18 defaults if omitted'),
 });
 
@@ -274,7 +320,12 @@ export const pvSchema = z.strictObject({
   kind: z.literal('pv'),
   ratingKw: positive().describe('AC rating'),
   ratingKva: positive().optional(),
-  operation: z.enum(['mppt', 'curtailed']).default('mppt'),
+  operation: z
+    .enum(['mppt', 'curtailed'])
+    .default('mppt')
+    .describe(
+      'mppt: all available power, no upward reserve; curtailed: holds headroomFraction back',
+    ),
   headroomFraction: fraction().default(0).describe('curtailed: reserve held below available power'),
   overFrequencyDeadbandHz: nonNegative()
     .default(0.036)
@@ -291,8 +342,10 @@ export const pvSchema = z.strictObject({
   resource: z
     .discriminatedUnion('kind', [csvProfileSchema, solarModelSchema])
     .describe('capacity factor profile or solar model'),
-  powerFactor: finite().min(0.5).max(1).default(1),
-  trips: unitTripSchema.optional(),
+  powerFactor: finite().min(0.5).max(1).default(1).describe('operating power factor'),
+  trips: unitTripSchema
+    .optional()
+    .describe('unit trips; protection.inverterTrips, else IEEE 1547-2018 Table 18, if omitted'),
 });
 
 export const windSchema = z.strictObject({
@@ -318,13 +371,19 @@ export const windSchema = z.strictObject({
     })
     .optional()
     .describe('omit for no frequency support'),
-  minRotorSpeedPu: finite().min(0.3).max(1).default(0.7),
+  minRotorSpeedPu: finite()
+    .min(0.3)
+    .max(1)
+    .default(0.7)
+    .describe('synthetic inertia stops at this rotor speed (about 0.7 pu, from memory)'),
   recoveryTimeS: positive()
     .default(20)
     .describe('time to restore the rotor speed after support ends'),
-  cutInMPerS: positive().default(3.5),
-  ratedMPerS: positive().default(12),
-  cutOutMPerS: positive().default(25),
+  cutInMPerS: positive()
+    .default(3.5)
+    .describe('hub-height wind speed where output starts (from memory)'),
+  ratedMPerS: positive().default(12).describe('wind speed of rated output (from memory)'),
+  cutOutMPerS: positive().default(25).describe('wind speed where the turbine stops (from memory)'),
   rideThrough: rideThroughCategory.default('II'),
   resource: z.discriminatedUnion('kind', [csvProfileSchema, windModelSchema]),
   powerFactor: finite().min(0.5).max(1).default(1),
@@ -372,8 +431,12 @@ export const loadSchema = z.strictObject({
   id: id(),
   bus: id(),
   tier: z.enum(loadTiers).describe('critical is never shed by UFLS; sheddable goes first'),
-  peakKw: positive(),
-  powerFactor: finite().min(0.5).max(1).default(0.95),
+  peakKw: positive().describe('yearly peak demand of this load, kW (profiles scale it)'),
+  powerFactor: finite()
+    .min(0.5)
+    .max(1)
+    .default(0.95)
+    .describe('lagging power factor (common practice, no source)'),
   kvarPerKw: nonNegative()
     .max(10)
     .optional()
@@ -386,7 +449,7 @@ export const loadSchema = z.strictObject({
   voltageExponentP: nonNegative()
     .default(1)
     .describe('P ~ V^a (0 constant power, 1 current, 2 impedance)'),
-  voltageExponentQ: nonNegative().default(2),
+  voltageExponentQ: nonNegative().default(2).describe('Q ~ V^b (2: constant impedance)'),
   profile: loadProfileSchema.default({
     kind: 'parametric',
     weekendFactor: 0.85,
@@ -405,14 +468,14 @@ export const busSchema = z.strictObject({
 export const branchSchema = z
   .strictObject({
     id: id().optional(),
-    from: id(),
-    to: id(),
-    rOhm: nonNegative().optional(),
-    xOhm: nonNegative().optional(),
-    rPu: nonNegative().optional(),
-    xPu: nonNegative().optional(),
-    ratingA: positive().optional(),
-    closed: z.boolean().default(true),
+    from: id().describe('bus id at the sending end (towards the pcc)'),
+    to: id().describe('bus id at the receiving end'),
+    rOhm: nonNegative().optional().describe('series resistance, ohm'),
+    xOhm: nonNegative().optional().describe('series reactance, ohm'),
+    rPu: nonNegative().optional().describe('series resistance, pu of the system base'),
+    xPu: nonNegative().optional().describe('series reactance, pu of the system base'),
+    ratingA: positive().optional().describe('thermal rating, A'),
+    closed: z.boolean().default(true).describe('false for a normally open point (no connection)'),
   })
   .describe('series impedance in ohms or in pu of the system base (one pair, not both)');
 
@@ -424,7 +487,7 @@ export const networkSchema = z.strictObject({
 export type Network = z.output<typeof networkSchema>;
 
 export const sheddingStageSchema = z.strictObject({
-  thresholdHz: positive(),
+  thresholdHz: positive().describe('stage operates below this frequency'),
   pickupDelayS: nonNegative()
     .default(0.1)
     .describe('relay pickup (6 cycles at 60 Hz ~ 0.1 s, ERCOT NOGRR247)'),
@@ -446,7 +509,9 @@ export const protectionSchema = z.strictObject({
     .optional()
     .describe('island collapses below this for shutdownDelayS; 57 Hz / 47.5 Hz if omitted'),
   shutdownOverFrequencyHz: positive().optional().describe('62 Hz / 52 Hz if omitted'),
-  shutdownDelayS: nonNegative().default(0.5),
+  shutdownDelayS: nonNegative()
+    .default(0.5)
+    .describe('time outside the shutdown limits before the island collapses, s (from memory)'),
   inverterTrips: unitTripSchema
     .optional()
     .describe('default trip settings of inverter sources; IEEE 1547-2018 Table 18 if omitted'),
@@ -471,13 +536,15 @@ export const limitsSchema = z.strictObject({
     .enum(['ansi-c84.1-range-a', 'ansi-c84.1-range-b', 'en50160-island', 'custom'])
     .optional()
     .describe('ANSI C84.1 Range A for 60 Hz, EN 50160 island rows for 50 Hz if omitted'),
-  voltageMinPu: positive().optional(),
-  voltageMaxPu: positive().optional(),
+  voltageMinPu: positive().optional().describe('custom lower voltage limit, pu'),
+  voltageMaxPu: positive().optional().describe('custom upper voltage limit, pu'),
   frequencyMinHz: positive()
     .optional()
     .describe('frequency violation below this; the first UFLS-free band if omitted'),
-  frequencyMaxHz: positive().optional(),
-  rocofMaxHzPerS: positive().optional(),
+  frequencyMaxHz: positive().optional().describe('frequency violation above this'),
+  rocofMaxHzPerS: positive()
+    .optional()
+    .describe('RoCoF violation above this (IEEE 1547-2018 Table 21: 0.5 / 2 / 3 Hz/s by category)'),
   dampingRatioMin: fraction()
     .default(0.05)
     .describe('flag oscillatory modes below this (5 %, common practice)'),
@@ -488,31 +555,46 @@ export const limitsSchema = z.strictObject({
 });
 
 export const monteCarloSchema = z.strictObject({
-  scenarios: z.number().int().positive().max(1e9).default(10000),
-  seed: z.union([z.number().int(), z.string().min(1)]).default(1),
-  confidenceLevel: finite().gt(0.5).lt(1).default(0.95),
+  scenarios: z
+    .number()
+    .int()
+    .positive()
+    .max(1e9)
+    .default(10000)
+    .describe('separation events to sample'),
+  seed: z
+    .union([z.number().int(), z.string().min(1)])
+    .default(1)
+    .describe('root of every random stream; the same seed gives the same rows'),
+  confidenceLevel: finite()
+    .gt(0.5)
+    .lt(1)
+    .default(0.95)
+    .describe('level of the confidence intervals'),
   plan: z
     .enum(['plain', 'stratified-month', 'stratified-month-hour', 'latin-hypercube'])
-    .default('plain'),
+    .default('plain')
+    .describe('how scenarios are spread over the year and the inputs'),
   horizonS: positive().max(3600).default(60).describe('frequency-event horizon, s'),
   rocofWindowS: positive().max(2).default(0.1).describe('window over which RoCoF is measured, s'),
   energyStepH: positive().max(1).default(1).describe('time step of the outage energy balance, h'),
   failureDefinition: z
     .enum(['shutdown-or-critical-loss', 'shutdown-only'])
-    .default('shutdown-or-critical-loss'),
+    .default('shutdown-or-critical-loss')
+    .describe('what counts as a failure in failures_per_year'),
 });
 
 export const systemSchema = z.strictObject({
-  frequencyHz: z.union([z.literal(50), z.literal(60)]),
+  frequencyHz: z.union([z.literal(50), z.literal(60)]).describe('nominal frequency, 50 or 60 Hz'),
   voltageKv: positive().describe('nominal line-to-line voltage of the main bus, kV'),
   baseKva: positive().describe('power base for per-unit quantities, kVA'),
   blackStartAllowed: z.boolean().default(false).describe('may the island restart after a shutdown'),
-  blackStartDelayH: nonNegative().default(1),
+  blackStartDelayH: nonNegative().default(1).describe('time to restart after a shutdown, h'),
 });
 
 export const caseSchema = z.strictObject({
-  name: z.string().min(1),
-  description: z.string().default(''),
+  name: z.string().min(1).describe('name of the microgrid, shown in summaries and reports'),
+  description: z.string().default('').describe('free text'),
   invented: z.boolean().default(false).describe('true for made-up demo data'),
   system: systemSchema,
   sources: z.array(sourceSchema).min(1),

@@ -57,6 +57,14 @@ export class SocModel {
     const q = 1 - this.fullProbability;
     return u >= q ? this.socMaxFraction : this.spread.quantile(u / q);
   }
+
+  /** Time-of-day pattern (24 values) when the case gives one; it replaces the distribution. */
+  byHourOfDay: Float64Array | null = null;
+
+  /** State of charge at hour of year h from the slot uniform u. */
+  at(h: number, u: number): number {
+    return this.byHourOfDay ? this.byHourOfDay[h % 24]! : this.quantile(u);
+  }
 }
 
 /** Everything precomputed for one case in one worker; reused for every scenario. */
@@ -95,6 +103,12 @@ export interface SamplerContext {
 }
 
 function socModel(b: Battery): SocModel {
+  const m = socDistributionModel(b);
+  if (b.socByHourOfDay) m.byHourOfDay = Float64Array.from(b.socByHourOfDay);
+  return m;
+}
+
+function socDistributionModel(b: Battery): SocModel {
   if (b.socAtEvent)
     return new SocModel(new CompiledDistribution(b.socAtEvent), 0, b.socMaxFraction);
   const lo = Math.max(b.socReserveFraction, b.socMinFraction);
@@ -310,7 +324,7 @@ export function sampleScenario(
         dispatchKw = availableKw;
         break;
       case 'battery': {
-        const q = ctx.soc[i]!.quantile(plan.stratify(ctx.dims.soc[i]!, digest, scenarioId, u[4]!));
+        const q = ctx.soc[i]!.at(h, plan.stratify(ctx.dims.soc[i]!, digest, scenarioId, u[4]!));
         const soc = q < s.socMinFraction ? s.socMinFraction : Math.min(q, s.socMaxFraction);
         out.socFraction[i] = soc;
         availableKw = soc > s.socMinFraction ? s.ratingKw : 0;

@@ -190,6 +190,21 @@ describe('scenario sampler: physics and dispatch invariants', () => {
     expect(0.9).toBeLessThanOrEqual(hi);
   });
 
+  it('follows a time-of-day state-of-charge pattern when the case gives one', () => {
+    const pattern = Array.from({ length: 24 }, (_, k) => 0.4 + 0.02 * k);
+    const c = inventedCase((x) => {
+      const b = x.sources[2]!;
+      if (b.kind === 'battery') b.socByHourOfDay = pattern;
+    });
+    const ctx = compileSampler(c, '.');
+    const s = new Scenario(c.sources.length, c.loads.length);
+    for (let id = 0; id < 500; id++) {
+      sampleScenario(ctx, 8, id, s);
+      // 0.4 + 0.02 k stays inside [socMin 0.1, socMax 0.95] for k <= 23, so no clipping.
+      expect(s.socFraction[2]).toBe(pattern[s.hourOfYear % 24]);
+    }
+  });
+
   it('takes a source out in its maintenance window, wrapping past the year end', () => {
     const c = inventedCase((x) => {
       x.events.monthlyRateWeights = [1, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 1];
