@@ -22,7 +22,10 @@ export function feedBlockOf(plan: PlanKind): number {
   return b * Math.ceil(minFeedBlock / b);
 }
 
-/** Default scenarios per task: 1000 (docs/runner.md, "Batch size"). */
+/**
+ * Default scenarios per task: 1000 (docs/runner.md, "Batch size"), fewer for small runs so each
+ * worker gets at least 4 tasks.
+ */
 export const defaultBatchSize = 1000;
 
 /** `--shard I/N`: 1-based index of N. */

@@ -123,7 +123,10 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   const total = opts.scenarios ?? c.monteCarlo.scenarios;
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const block = feedBlockOf(c.monteCarlo.plan);
-  const batchSize = alignBatchSize(opts.batchSize ?? defaultBatchSize, block);
+  const batchSize = alignBatchSize(
+    opts.batchSize ?? Math.min(defaultBatchSize, Math.ceil(total / (4 * workers))),
+    block,
+  );
   if (opts.untilRelError !== undefined && opts.shard && opts.shard.count > 1)
     throw CaseError.single(
       '--until-rel-error',
