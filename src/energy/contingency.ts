@@ -48,7 +48,7 @@ export function fillContingencyPoint(m: OutageModel, sc: Scenario, k: number, tH
   for (let i = 0; i < m.sourceCount; i++) {
     const on = m.running[i] === 1 ? 1 : 0;
     const kind = m.kind[i];
-    op.available[i] = m.failed[i] === 1 ? 0 : 1;
+    op.available[i] = m.failed[i] === 1 && i !== k ? 0 : 1;
     op.running[i] = on;
     op.failsToStart[i] = on === 1 ? 0 : 1;
     op.trippedAtSeparation[i] = i === k ? 1 : 0;

@@ -254,8 +254,16 @@ function processFailures(m: OutageModel, sc: Scenario, out: OutageResult, tH: nu
       continue;
     }
     dispatchSegment(m);
-    fillContingencyPoint(m, sc, k, tH);
     m.failed[k] = 1;
+    const kind = m.kind[k];
+    const formsGrid = kind === KIND_GENSET || (kind === KIND_BATTERY && m.gridForming[k] === 1);
+    if (!formsGrid && m.outKw[k] === 0) {
+      // A grid-following unit at zero output (PV at night, an idle battery) leaves no imbalance
+      // and no inertia behind: no frequency event.
+      m.running[k] = 0;
+      continue;
+    }
+    fillContingencyPoint(m, sc, k, tH);
     m.running[k] = 0;
     const ev = m.hooks.runContingency(m.op);
     out.contingencies++;

@@ -42,6 +42,8 @@ describe('a unit failure during the outage', () => {
     const op = hooks.ops[0]!;
     expect(op.gridImportKw).toBe(0);
     expect(Array.from(op.trippedAtSeparation)).toEqual([1, 0, 0]);
+    expect(Array.from(op.available)).toEqual([1, 1, 1]);
+    expect(Array.from(op.running)).toEqual([1, 1, 1]);
     expect(op.dispatchKw[0]).toBeCloseTo(60, 12);
     const dispatch = op.dispatchKw.reduce((a, b) => a + b, 0);
     const served = op.loadKw.reduce((a, b) => a + b, 0);
@@ -112,5 +114,32 @@ describe('the frequency event at separation', () => {
     expect(out.shutdown).toBe(false);
     expect(out.unservedKwh).toBe(0);
     expect(out.servedKwh).toBeCloseTo(120 * 3, 9);
+  });
+});
+
+describe('a failure that leaves no imbalance', () => {
+  it('runs no frequency event for PV failing at night', () => {
+    const night = inventedCase(
+      [
+        { id: 'g', bus: 'main', kind: 'genset', ratingKw: 100, inertiaS: 1 },
+        {
+          id: 'pv',
+          bus: 'main',
+          kind: 'pv',
+          ratingKw: 100,
+          resource: { kind: 'parametric', latitudeDeg: 20 },
+        },
+      ],
+      [load('ward', 'critical', 50)],
+    );
+    const dark = constantConditions([50], [100, 0]);
+    const hooks = new FakeHooks(night, 0, dark);
+    const sc = scenarioFor(night, 0, 10, dark);
+    sc.timeToFailureH[1] = 4;
+    const out = new OutageResult(2, 1);
+    simulateOutage(buildOutageModel(night, hooks), sc, new FakeEvent(2, 1), out);
+    expect(hooks.ops.length).toBe(0);
+    expect(out.contingencies).toBe(0);
+    expect(out.unservedKwh).toBe(0);
   });
 });
