@@ -4,6 +4,7 @@
  */
 import { addCheckCommand } from './commands/check.js';
 import { addCompareCommand } from './commands/compare.js';
+import { addFlowCommand } from './commands/flow.js';
 import { addInitCommand } from './commands/init.js';
 import { addMergeCommand } from './commands/merge.js';
 import { addReplayCommand } from './commands/replay.js';
@@ -21,4 +22,5 @@ export const addCommands: readonly AddCommand[] = [
   addInitCommand,
   addCompareCommand,
   addSweepCommand,
+  addFlowCommand,
 ];
