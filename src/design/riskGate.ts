@@ -119,8 +119,6 @@ export function anyGateExceeded(verdicts: readonly GateVerdict[]): boolean {
 }
 
 function formatValue(x: number): string {
-  if (!Number.isFinite(x)) return String(x);
-  return Math.abs(x) >= 1e-3 && Math.abs(x) < 1e6
-    ? String(Number(x.toPrecision(4)))
-    : x.toExponential(3);
+  // 4 significant digits, JavaScript's own notation (0.0001, 1e-7, 0)
+  return Number.isFinite(x) ? String(Number(x.toPrecision(4))) : String(x);
 }
