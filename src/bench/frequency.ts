@@ -1,0 +1,121 @@
+/**
+ * Benchmark of the frequency engine alone (one thread): separation events per second for the
+ * demo case and for an invented 50-source island at a 60 s horizon, the casual baseline of the
+ * same model (naive-frequency.ts) in the same run, the nadir error against a tight-tolerance
+ * reference and the share of shedding/shutdown outcomes that differ from it, over 2,000 seeded
+ * operating points (frequency-operating-points.ts). Speed belongs here, never in a test.
+ */
+import { fileURLToPath } from 'node:url';
+import { loadCase } from '../case/load.js';
+import type { Case } from '../case/schema.js';
+import { EventResult } from '../grid/frequency/event-result.js';
+import { compileIsland } from '../grid/frequency/island.js';
+import { type EventOptions, simulateEvent } from '../grid/frequency/simulate.js';
+import { fiftySourceCase } from './frequency-large-case.js';
+import { benchScenario, makeBenchScenario } from './frequency-operating-points.js';
+import { naiveSimulate } from './naive-frequency.js';
+
+const demoCasePath = fileURLToPath(new URL('../../cases/kestrel-island.yaml', import.meta.url));
+const SEED = 'bench-frequency';
+
+/** Events per second over `count` seeded scenarios (after a warm-up). */
+function eventsPerSecond(
+  c: Case,
+  count: number,
+  opts: EventOptions,
+): { rate: number; evals: number } {
+  const isl = compileIsland(c);
+  const op = makeBenchScenario(c);
+  const out = new EventResult(c.sources.length, c.loads.length);
+  for (let id = 0; id < Math.min(200, count); id++) {
+    benchScenario(c, SEED, id, op);
+    simulateEvent(isl, op, opts, out);
+  }
+  let evals = 0;
+  let buildMs = 0;
+  const t0 = performance.now();
+  for (let id = 0; id < count; id++) {
+    const b0 = performance.now();
+    benchScenario(c, SEED, id, op);
+    buildMs += performance.now() - b0;
+    simulateEvent(isl, op, opts, out);
+    evals += out.rhsEvaluations;
+  }
+  const seconds = (performance.now() - t0 - buildMs) / 1000;
+  return { rate: count / seconds, evals: evals / count };
+}
+
+/** Nadir error p99 and outcome mismatches against a tight-tolerance reference. */
+function accuracy(c: Case, count: number, opts: EventOptions) {
+  const isl = compileIsland(c);
+  const op = makeBenchScenario(c);
+  const a = new EventResult(c.sources.length, c.loads.length);
+  const b = new EventResult(c.sources.length, c.loads.length);
+  const tight: EventOptions = { ...opts, relTol: 1e-11, absTol: 1e-13, maxStepS: 0.05 };
+  const errors = new Float64Array(count);
+  let mismatches = 0;
+  let shedding = 0;
+  let shutdowns = 0;
+  for (let id = 0; id < count; id++) {
+    benchScenario(c, SEED, id, op);
+    simulateEvent(isl, op, opts, a);
+    simulateEvent(isl, op, tight, b);
+    errors[id] = Math.abs(a.nadirHz - b.nadirHz);
+    if (
+      a.shedStages !== b.shedStages ||
+      a.shutdown !== b.shutdown ||
+      a.shutdownCause !== b.shutdownCause
+    )
+      mismatches++;
+    if (b.shedStages > 0) shedding++;
+    if (b.shutdown) shutdowns++;
+  }
+  errors.sort();
+  return {
+    p99: errors[Math.min(count - 1, Math.floor(0.99 * count))]!,
+    max: errors[count - 1]!,
+    mismatchShare: mismatches / count,
+    shedShare: shedding / count,
+    shutdownShare: shutdowns / count,
+  };
+}
+
+export async function benchFrequency(
+  casePath: string = demoCasePath,
+): Promise<Record<string, number>> {
+  const demo = (await loadCase(casePath)).case;
+  const large = fiftySourceCase();
+  const opts: EventOptions = { horizonS: 60, rocofWindowS: demo.monteCarlo.rocofWindowS };
+  const demoRate = eventsPerSecond(demo, 2000, opts);
+  const largeRate = eventsPerSecond(large, 500, opts);
+  const op = makeBenchScenario(demo);
+  const naiveCount = 10;
+  const t0 = performance.now();
+  for (let id = 0; id < naiveCount; id++) {
+    benchScenario(demo, SEED, id, op);
+    naiveSimulate(demo, op, opts.horizonS);
+  }
+  const naiveRate = naiveCount / ((performance.now() - t0) / 1000);
+  const acc = accuracy(demo, 2000, opts);
+  const accLarge = accuracy(large, 200, opts);
+  return {
+    events_per_s_thread: demoRate.rate,
+    events_per_s_thread_50_sources: largeRate.rate,
+    naive_events_per_s: naiveRate,
+    speedup_over_naive: demoRate.rate / naiveRate,
+    rhs_evaluations_per_event: demoRate.evals,
+    rhs_evaluations_per_event_50_sources: largeRate.evals,
+    nadir_error_p99_hz: acc.p99,
+    nadir_error_max_hz: acc.max,
+    outcome_mismatch_share: acc.mismatchShare,
+    reference_shed_share: acc.shedShare,
+    reference_shutdown_share: acc.shutdownShare,
+    nadir_error_p99_hz_50_sources: accLarge.p99,
+    outcome_mismatch_share_50_sources: accLarge.mismatchShare,
+  };
+}
+
+// Direct run: `npx tsx src/bench/frequency.ts`.
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  benchFrequency().then((r) => console.log(JSON.stringify(r, null, 2)));
+}
