@@ -34,6 +34,7 @@ export interface CliOptions {
   failIf: Required<RiskGate>[];
   debug: boolean;
   force: boolean;
+  markdown: boolean;
   horizonS?: number;
   scenario?: number;
   hour?: number;
@@ -136,6 +137,12 @@ export const optionTable = {
     kind: 'flag',
     description: 'print stack traces on errors',
   },
+  markdown: {
+    flags: '--markdown',
+    attribute: 'markdown',
+    kind: 'flag',
+    description: 'print the case file reference as Markdown instead',
+  },
   force: {
     flags: '--force',
     attribute: 'force',
@@ -212,6 +219,7 @@ export function parseOptions(raw: Readonly<Record<string, unknown>>): CliOptions
     failIf: [],
     debug: false,
     force: false,
+    markdown: false,
   };
   const target = options as unknown as Record<string, unknown>;
   for (const key of Object.keys(optionTable) as OptionKey[]) {
