@@ -55,7 +55,7 @@ const alternativesOf = (n: Node): Node[] | undefined => (n.oneOf ?? n.anyOf) as 
 
 function discriminated(n: Node): { key: string; values: string[] } | undefined {
   const alts = alternativesOf(n);
-  if (!alts || !alts.every((a) => a.properties)) return undefined;
+  if (!alts?.every((a) => a.properties)) return undefined;
   const first = alts[0]?.properties as Record<string, Node> | undefined;
   if (!first) return undefined;
   const key = Object.keys(first).find((k) => 'const' in (first[k] ?? {}));
@@ -192,9 +192,9 @@ export function caseReferenceMarkdown(): string {
     '| kind | parameters |',
     '| --- | --- |',
   ];
-  const dist = ((
-    (schema.properties as Record<string, Node>).events?.properties as Record<string, Node>
-  ).outageDurationH ?? {}) as Node;
+  const events = (schema.properties as Record<string, Node>).events;
+  const dist = ((events?.properties as Record<string, Node> | undefined)?.outageDurationH ??
+    {}) as Node;
   for (const alt of alternativesOf(dist) ?? []) {
     const props = alt.properties as Record<string, Node>;
     const kind = String(props.kind?.const);
