@@ -71,18 +71,24 @@ export function hourOfDayPartition(frame: ScenarioFrame): Partition | undefined 
   return { driver: 'hour_of_day', label: 'hour of day', strata, codes };
 }
 
-/** State-of-charge bands of 20 points: 0-20 %, ..., 80-100 % (a full battery falls in the last). */
+/**
+ * State-of-charge bands of 20 points: 0-20 %, ..., 80-100 % (a full battery falls in the last),
+ * and a stratum of its own for scenarios with no battery available (battery_soc NaN).
+ */
 export function socBandPartition(frame: ScenarioFrame): Partition | undefined {
   const soc = frame.numeric('battery_soc');
   if (!soc) return undefined;
   const bands = 5;
   const codes = new Int32Array(frame.n);
-  for (let i = 0; i < frame.n; i++)
-    codes[i] = Math.min(bands - 1, Math.max(0, Math.floor(soc[i]! * bands)));
+  for (let i = 0; i < frame.n; i++) {
+    const x = soc[i]!;
+    codes[i] = Number.isNaN(x) ? bands : Math.min(bands - 1, Math.max(0, Math.floor(x * bands)));
+  }
   const strata = Array.from(
     { length: bands },
     (_, k) => `state of charge ${(k * 100) / bands}-${((k + 1) * 100) / bands} %`,
   );
+  strata.push('no battery available');
   return { driver: 'soc_band', label: 'battery state of charge', strata, codes };
 }
 
@@ -118,11 +124,13 @@ export function deficitPartition(frame: ScenarioFrame): Partition | undefined {
 
 /**
  * Which sources were out (forced outage, maintenance or failed start), from the `sources_out`
- * column: source ids joined by '+', '' when none. Each distinct combination is a stratum.
+ * column: source ids joined by '+', '' when none; each distinct combination is a stratum. Without
+ * that column, the count of sources available at the event hour (`sources_available`) is the
+ * partition: "5 sources available", "4 sources available", ...
  */
 export function sourcesOutPartition(frame: ScenarioFrame): Partition | undefined {
   const out = frame.text('sources_out');
-  if (!out) return undefined;
+  if (!out) return sourcesAvailablePartition(frame);
   const index = new Map<string, number>();
   const strata: string[] = [];
   const codes = new Int32Array(frame.n);
@@ -134,6 +142,17 @@ export function sourcesOutPartition(frame: ScenarioFrame): Partition | undefined
   }
   for (let i = 0; i < frame.n; i++) codes[i] = index.get(out[i]!)!;
   return { driver: 'sources_out', label: 'sources out', strata, codes };
+}
+
+function sourcesAvailablePartition(frame: ScenarioFrame): Partition | undefined {
+  const available = frame.numeric('sources_available');
+  if (!available) return undefined;
+  const counts = [...new Set(available)].sort((a, b) => b - a);
+  const index = new Map(counts.map((c, k) => [c, k]));
+  const codes = new Int32Array(frame.n);
+  for (let i = 0; i < frame.n; i++) codes[i] = index.get(available[i]!)!;
+  const strata = counts.map((c) => `${c} source${c === 1 ? '' : 's'} available`);
+  return { driver: 'sources_out', label: 'sources available', strata, codes };
 }
 
 /** Every partition the frame has the columns for, in the order the tables show them. */

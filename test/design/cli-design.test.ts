@@ -130,6 +130,19 @@ describe('holdfast compare', () => {
     // only the discordant scenarios; 2 leaves room for model changes and is still "much narrower"
     expect(unpairedWidth / pairedWidth).toBeGreaterThan(2);
     expect(row.difference).toBeCloseTo(v.estimate - b.estimate, 12);
+    // common random numbers: the battery rating moves none of the sampled conditions, so the
+    // sampler's columns agree scenario by scenario (rows are written in scenario-id order)
+    const sb = readArrowFile(join(out, 'base', 'scenarios.arrow'));
+    const sv = readArrowFile(join(out, 'variant', 'scenarios.arrow'));
+    for (const name of [
+      'scenario_id',
+      'hour_of_year',
+      'load_kw',
+      'pv_kw',
+      'wind_kw',
+      'outage_duration_h',
+    ])
+      expect([...sv.getChild(name)!], name).toEqual([...sb.getChild(name)!]);
   });
 
   it('exits 1 when the variant exceeds a risk gate on its upper confidence bound', async () => {

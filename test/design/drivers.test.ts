@@ -4,7 +4,12 @@ import { describe, expect, it } from 'vitest';
 import { computeDrivers, topDrivers } from '../../src/design/drivers.js';
 import { katzRiskRatio } from '../../src/design/riskRatio.js';
 import { ScenarioFrame } from '../../src/design/scenarioFrame.js';
-import { monthOfHour, niceStep } from '../../src/design/strata.js';
+import {
+  monthOfHour,
+  niceStep,
+  socBandPartition,
+  sourcesOutPartition,
+} from '../../src/design/strata.js';
 import { twoSidedZ } from '../../src/stats/normal.js';
 import { toyScenarioTable } from './fixture.js';
 
@@ -31,6 +36,27 @@ describe('strata', () => {
   it('maps hours to months of a 365-day year', () => {
     // 1 Feb 00:00 is hour 31 * 24 = 744; 1 Mar is hour 59 * 24 = 1416; 31 Dec 23:00 is 8759
     expect([0, 743, 744, 1415, 1416, 8759].map(monthOfHour)).toEqual([0, 0, 1, 1, 2, 11]);
+  });
+
+  it('gives scenarios without a battery their own band, and counts sources when ids are absent', () => {
+    const frame = new ScenarioFrame(
+      tableFromArrays({
+        scenario_id: BigInt64Array.from([0n, 1n, 2n, 3n]),
+        battery_soc: Float64Array.from([0.05, 0.5, Number.NaN, 1]),
+        sources_available: Int16Array.from([5, 4, 5, 3]),
+      }),
+      'small',
+    );
+    const soc = socBandPartition(frame)!;
+    expect([...soc.codes]).toEqual([0, 2, 5, 4]);
+    expect(soc.strata[5]).toBe('no battery available');
+    const out = sourcesOutPartition(frame)!;
+    expect(out.strata).toEqual([
+      '5 sources available',
+      '4 sources available',
+      '3 sources available',
+    ]);
+    expect([...out.codes]).toEqual([0, 1, 0, 2]);
   });
 
   it('picks 1-2-5 steps', () => {
