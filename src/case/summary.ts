@@ -64,6 +64,29 @@ export interface CaseSummary {
   islandingRatePerYear: number;
   meanOutageH: number;
   outageHoursPerYear: number;
+  /** Plain-words hints a reviewer should look at (not errors: the case is valid). */
+  notes: string[];
+}
+
+// IEEE 1547-2018 Table 21 RoCoF ride-through, Category II: 2.0 Hz/s (REFERENCES 2.5)
+const rocofRideThroughCatIIHzPerS = 2;
+
+function notesFor(s: Omit<CaseSummary, 'notes'>): string[] {
+  const notes: string[] = [];
+  if (s.spinningReserveAtPeakKw < 0)
+    notes.push(
+      'at peak the units running at separation cannot carry the load: shedding or the battery must bridge until standby units start',
+    );
+  if (s.reserveAfterStandbyStartKw < 0)
+    notes.push('even with every dispatchable source running, the peak load exceeds their rating');
+  if (s.batteryEnergyKwh > 0 && s.batteryHoursAtCriticalLoad < 1)
+    notes.push('the battery reserve covers less than one hour of the critical peak');
+  if (s.rocofTenthPuWithEmulatedHzPerS > rocofRideThroughCatIIHzPerS)
+    notes.push(
+      `a 0.1 pu deficit exceeds ${rocofRideThroughCatIIHzPerS} Hz/s, the IEEE 1547-2018 Category II RoCoF ride-through: inverter sources may trip`,
+    );
+  if (s.ufls.length === 0) notes.push('no under-frequency load shedding stages');
+  return notes;
 }
 
 /** The mean of a distribution (the unit of the key holding it). */
@@ -164,7 +187,7 @@ export function summarizeCase(c: Case): CaseSummary {
   const limits = defaultShutdownLimitsHz(f0);
   let cumulative = 0;
   const meanOutageH = distributionMean(c.events.outageDurationH);
-  return {
+  const summary: Omit<CaseSummary, 'notes'> = {
     name: c.name,
     invented: c.invented,
     frequencyHz: f0,
@@ -214,6 +237,7 @@ export function summarizeCase(c: Case): CaseSummary {
     meanOutageH,
     outageHoursPerYear: c.events.islandingRatePerYear * meanOutageH,
   };
+  return { ...summary, notes: notesFor(summary) };
 }
 
 const kw = (v: number) => `${Math.round(v).toLocaleString('en-US')} kW`;
@@ -267,6 +291,7 @@ export function formatSummary(s: CaseSummary, file: string): string {
   lines.push(
     `  events      ${s.islandingRatePerYear} islanding events per year, mean outage ${num(s.meanOutageH, 2)} h (${num(s.outageHoursPerYear, 1)} h islanded per year)`,
   );
+  for (const note of s.notes) lines.push(`  note        ${note}`);
   lines.push(
     '  Screening figures from nameplate data; protection settings and interconnection are decided under local codes by licensed engineers.',
   );

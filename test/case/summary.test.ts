@@ -85,4 +85,13 @@ describe('summarizeCase on the Kestrel Island demo', () => {
     const s = summarizeCase((await loadCase('cases/tern-atoll/tern-atoll.yaml')).case);
     expect([s.shutdownUnderFrequencyHz, s.shutdownOverFrequencyHz]).toEqual([47.5, 52]);
   });
+
+  it('notes that the hospital relies on shedding or the battery until the standby genset starts', async () => {
+    const s = summarizeCase((await loadCase('cases/ridgeway-hospital.yaml')).case);
+    // running at separation: CHP 800 kW + battery 1200 kW = 2000 kW against a 2550 kW peak
+    expect(s.spinningReserveAtPeakKw).toBe(-550);
+    expect(s.notes.some((n) => n.includes('until standby units start'))).toBe(true);
+    const kestrel = summarizeCase((await loadCase('cases/kestrel-island.yaml')).case);
+    expect(kestrel.notes).toEqual([]);
+  });
 });
