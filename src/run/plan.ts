@@ -24,7 +24,7 @@ export function feedBlockOf(plan: PlanKind): number {
 
 /**
  * Default scenarios per task: 1000 (docs/runner.md, "Batch size"), fewer for small runs so each
- * worker gets at least 4 tasks.
+ * worker gets at least 16 tasks (the last task of a worker is its idle tail).
  */
 export const defaultBatchSize = 1000;
 

@@ -124,7 +124,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const block = feedBlockOf(c.monteCarlo.plan);
   const batchSize = alignBatchSize(
-    opts.batchSize ?? Math.min(defaultBatchSize, Math.ceil(total / (4 * workers))),
+    opts.batchSize ?? Math.min(defaultBatchSize, Math.ceil(total / (16 * workers))),
     block,
   );
   if (opts.untilRelError !== undefined && opts.shard && opts.shard.count > 1)

@@ -1,0 +1,86 @@
+/**
+ * Benchmark of the run pipeline on the demo case (cases/kestrel-island.yaml, invented):
+ * - full_scenarios_per_s_thread: the kernel (sample, ride-through, frequency event, voltage,
+ *   outage hours) called directly in this thread, no pool, no writer;
+ * - full_scenarios_per_s_all_workers / _one_worker: runAssessment end to end (pool, ordered
+ *   writes, summary, files) with all cores and with one worker;
+ * - parallel_efficiency: all-workers rate over the one-worker rate of the same run (2 cores:
+ *   ideal 2);
+ * - pool_overhead_fraction: 1 - one-worker rate / in-thread rate (what the pool, transfer,
+ *   Arrow writer and summary add per scenario);
+ * - peakRssMb(n): peak memory of an n-scenario run in a child process (`peak_rss_mb_1e6` with
+ *   n = 1e6; it takes n / full_scenarios_per_s_all_workers seconds).
+ * Timing belongs here, never in tests.
+ */
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { availableParallelism, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { loadCase } from '../case/load.js';
+import { compileKernel } from '../run/kernel.js';
+import { runAssessment } from '../run/run.js';
+
+export const demoCasePath = fileURLToPath(
+  new URL('../../cases/kestrel-island.yaml', import.meta.url),
+);
+
+function seconds(t0: bigint): number {
+  return Number(process.hrtime.bigint() - t0) / 1e9;
+}
+
+export async function benchPool(
+  opts: { threadScenarios?: number; poolScenarios?: number } = {},
+): Promise<Record<string, number>> {
+  const threadN = opts.threadScenarios ?? 1000;
+  const poolN = opts.poolScenarios ?? 4000;
+  const loaded = await loadCase(demoCasePath);
+  const c = loaded.case;
+
+  // in-thread kernel: warm up on other ids (JIT), then time
+  const kernel = compileKernel(c, loaded.dir, { seed: c.monteCarlo.seed });
+  kernel.runBatch(10_000_000, 100);
+  let t0 = process.hrtime.bigint();
+  for (let id = 0; id < threadN; id += 100) kernel.runBatch(id, Math.min(100, threadN - id));
+  const threadRate = threadN / seconds(t0);
+
+  const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-'));
+  try {
+    const workers = availableParallelism();
+    t0 = process.hrtime.bigint();
+    await runAssessment(loaded, { outDir: join(dir, 'one'), scenarios: poolN, workers: 1 });
+    const oneRate = poolN / seconds(t0);
+    t0 = process.hrtime.bigint();
+    await runAssessment(loaded, { outDir: join(dir, 'all'), scenarios: poolN, workers });
+    const allRate = poolN / seconds(t0);
+    return {
+      workers,
+      full_scenarios_per_s_thread: threadRate,
+      full_scenarios_per_s_one_worker: oneRate,
+      full_scenarios_per_s_all_workers: allRate,
+      parallel_efficiency: allRate / oneRate,
+      pool_overhead_fraction: 1 - oneRate / threadRate,
+    };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/**
+ * Peak resident memory (MB) of an n-scenario run of the demo case in a child process (all
+ * workers; worker threads share the process, so their memory is included). Needs the built
+ * `dist/` (it runs dist/bench/rss-child.js).
+ */
+export function peakRssMb(scenarios = 1_000_000): number {
+  const child = fileURLToPath(new URL('./rss-child.js', import.meta.url));
+  const dir = mkdtempSync(join(tmpdir(), 'holdfast-rss-'));
+  try {
+    const out = execFileSync(process.execPath, [child, demoCasePath, String(scenarios), dir], {
+      encoding: 'utf8',
+      maxBuffer: 1 << 20,
+    });
+    return (JSON.parse(out) as { peakRssMb: number }).peakRssMb;
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
