@@ -8,8 +8,11 @@
  * restoration, Van Cutsem & Vournas, Voltage Stability of Electric Power Systems, Kluwer 1998,
  * ch. 4, from memory). This also makes the nose exist for impedance-like loads.
  *
- * Method: bracket the nose by doubling lambda from the operating point, then bisect on lambda;
- * a sweep that reports voltage collapse (a branch discriminant stays negative, see
+ * Method: bracket the nose by doubling lambda from the operating point, then narrow the bracket
+ * [lo, hi] with a predictor: the weakest bus's P-V curve near the nose is a parabola lambda(V), so
+ * the vertex of the parabola through the last three solved points predicts the nose; the next
+ * trial goes just below it and the bracket is confirmed one tolerance step above (bisection
+ * whenever the prediction falls outside the bracket, as in Brent's safeguarded methods). A sweep that reports voltage collapse (a branch discriminant stays negative, see
  * radial-flow.ts) or does not converge counts as beyond the nose. Each trial warm-starts from the
  * last solvable point. The growth in demand is picked up by the voltage-holding sources in
  * proportion to their share (growthShare; the root takes the rest and the losses).
@@ -54,6 +57,10 @@ export class MarginWorkspace {
   readonly qBest: Float64Array;
   loadP0: Float64Array = new Float64Array(0);
   loadQ0: Float64Array = new Float64Array(0);
+  /** The last solved points of the search, for the nose predictor. */
+  readonly fitL = new Float64Array(3);
+  readonly fitV = new Float64Array(3);
+  fitCount = 0;
   constructor(busCount: number) {
     this.vBest = new Float64Array(busCount);
     this.qBest = new Float64Array(busCount);
@@ -101,24 +108,73 @@ function searchNose(
   ws: MarginWorkspace,
   opts: MarginOptions,
 ): number {
+  // watch the weakest bus: its P-V curve is a parabola lambda(V) near the nose
+  let watch = 0;
+  for (let b = 1; b < flow.vPu.length; b++) if (flow.vPu[b]! < flow.vPu[watch]!) watch = b;
+  ws.fitCount = 0;
+  pushPoint(ws, 1, flow.vPu[watch]!);
   let lo = 1;
-  let hi = 2;
-  let bracketed = false;
-  while (!bracketed) {
-    if (trial(flow, tree, ws, hi, opts)) {
-      lo = hi;
-      if (hi >= opts.maxFactor) return opts.maxFactor;
-      hi = Math.min(2 * hi, opts.maxFactor);
+  let hi = Number.POSITIVE_INFINITY;
+  for (let guard = 0; guard < 60; guard++) {
+    if (hi - lo <= opts.relTol * lo) break;
+    let t: number;
+    const predicted = ws.fitCount === 3 ? predictNose(ws) : Number.NaN;
+    const usePrediction = predicted > lo && predicted < hi;
+    if (usePrediction) {
+      // just below the predicted nose, or one tolerance step above lo if that is nearer
+      t = Math.max(predicted * (1 - 0.5 * opts.relTol), lo * (1 + opts.relTol));
+      if (t >= hi) t = 0.5 * (lo + hi);
     } else {
-      bracketed = true;
+      t = Number.isFinite(hi) ? 0.5 * (lo + hi) : Math.min(2 * lo, opts.maxFactor);
+    }
+    if (trial(flow, tree, ws, t, opts)) {
+      lo = t;
+      pushPoint(ws, t, flow.vPu[watch]!);
+      if (lo >= opts.maxFactor) return opts.maxFactor;
+      // confirm the bracket one tolerance step above
+      if (usePrediction && hi > lo * (1 + opts.relTol)) {
+        const up = lo * (1 + opts.relTol);
+        if (trial(flow, tree, ws, up, opts)) {
+          lo = up;
+          pushPoint(ws, up, flow.vPu[watch]!);
+        } else hi = up;
+      }
+    } else {
+      hi = t;
     }
   }
-  while (hi - lo > opts.relTol * lo) {
-    const mid = 0.5 * (lo + hi);
-    if (trial(flow, tree, ws, mid, opts)) lo = mid;
-    else hi = mid;
-  }
   return lo;
+}
+
+/** Keeps the last three solved points (lambda, V_watch). */
+function pushPoint(ws: MarginWorkspace, lambda: number, v: number): void {
+  if (ws.fitCount === 3) {
+    ws.fitL[0] = ws.fitL[1]!;
+    ws.fitV[0] = ws.fitV[1]!;
+    ws.fitL[1] = ws.fitL[2]!;
+    ws.fitV[1] = ws.fitV[2]!;
+    ws.fitCount = 2;
+  }
+  ws.fitL[ws.fitCount] = lambda;
+  ws.fitV[ws.fitCount] = v;
+  ws.fitCount++;
+}
+
+/**
+ * Vertex of the parabola lambda = A + B V + C V^2 through the three points (Newton divided
+ * differences); NaN unless it opens downward (a nose).
+ */
+function predictNose(ws: MarginWorkspace): number {
+  const [v0, v1, v2] = [ws.fitV[0]!, ws.fitV[1]!, ws.fitV[2]!];
+  const [l0, l1, l2] = [ws.fitL[0]!, ws.fitL[1]!, ws.fitL[2]!];
+  if (v0 === v1 || v1 === v2 || v0 === v2) return Number.NaN;
+  const d01 = (l1 - l0) / (v1 - v0);
+  const d12 = (l2 - l1) / (v2 - v1);
+  const c = (d12 - d01) / (v2 - v0);
+  if (!(c < 0)) return Number.NaN;
+  // lambda = l0 + d01 (V - v0) + c (V - v0)(V - v1): vertex where the derivative vanishes
+  const vStar = (c * (v0 + v1) - d01) / (2 * c);
+  return l0 + d01 * (vStar - v0) + c * (vStar - v0) * (vStar - v1);
 }
 
 function trial(
