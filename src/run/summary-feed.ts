@@ -4,7 +4,7 @@
  * order, with the contract column names (bool columns as Uint8Array 0/1, `weight` Float64Array).
  */
 import type { Case } from '../case/schema.js';
-import type { ColumnBatch, ColumnSpec } from '../results/columns.js';
+import { allocateBatch, type ColumnBatch, type ColumnSpec } from '../results/columns.js';
 import { ExceedanceAccumulator, type ExceedanceRow } from '../results/exceedance.js';
 import { type FailureDefinition, SummaryAccumulator, type SummaryRow } from '../results/summary.js';
 
@@ -86,4 +86,20 @@ export function feedSummary(
     cols[s.name] = (a as Float64Array).subarray(from, from + count);
   }
   sink.addBatch(cols, count);
+}
+
+/**
+ * The metric names a run of these columns will report (for checking `--fail-if` gates before
+ * the run): the accumulator reports a metric once its column has been seen, so one row of zeros
+ * (weight 1) fed to a throwaway accumulator names them all.
+ */
+export function summaryMetricNames(
+  settings: SummarySettings,
+  specs: readonly ColumnSpec[],
+): string[] {
+  const probe = createSummary(settings);
+  const row = allocateBatch(specs, 0, 1);
+  (row.columns['weight'] as Float64Array)[0] = 1;
+  feedSummary(probe, specs, row, 0, 1);
+  return probe.rows().map((r) => r.metric);
 }

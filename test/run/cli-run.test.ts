@@ -51,6 +51,18 @@ describe('holdfast run / replay / merge on the command line', () => {
     expect(existsSync(join(dir, 'nothing'))).toBe(false);
   });
 
+  it('exits 1 when a --fail-if gate is exceeded and 2, before writing, for an unknown metric', async () => {
+    const io = memoryIo(dir);
+    const args = ['run', input.path, '--scenarios', '200', '--workers', '1', '--quiet'];
+    // p_load_shed is tens of % on this invented case: its upper bound is far above 0.001
+    expect(await runCli([...args, '--out', 'gate1', '--fail-if', 'p_load_shed>0.001'], io)).toBe(1);
+    expect(io.err).toMatch(/p_load_shed: upper confidence bound .* EXCEEDED/);
+    const bad = memoryIo(dir);
+    expect(await runCli([...args, '--out', 'gate2', '--fail-if', 'p_nonsense>0.1'], bad)).toBe(2);
+    expect(bad.err).toMatch(/unknown metric "p_nonsense"/);
+    expect(existsSync(join(dir, 'gate2'))).toBe(false);
+  });
+
   it('replays scenario K with the figures of row K', async () => {
     const k = 137;
     const t = tableFromIPC(readFileSync(join(dir, 'cli-out', 'scenarios.arrow')));

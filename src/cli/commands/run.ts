@@ -3,9 +3,12 @@ import { basename, extname, resolve } from 'node:path';
 import { SingleBar } from 'cli-progress';
 import type { Command } from 'commander';
 import { loadCase } from '../../case/load.js';
-import { anyGateExceeded, evaluateRiskGates } from '../../design/riskGate.js';
+import { anyGateExceeded, checkGateMetrics, evaluateRiskGates } from '../../design/riskGate.js';
+import { columnsOf } from '../../results/columns.js';
 import { headlineText } from '../../run/headline.js';
+import { kernelGroups } from '../../run/kernel.js';
 import { runAssessment } from '../../run/run.js';
+import { summaryMetricNames, summarySettings } from '../../run/summary-feed.js';
 import { exitCode, InterruptedError } from '../exit.js';
 import type { AddCommand } from '../frame.js';
 import { addOptions, commonRunOptions } from '../options.js';
@@ -30,6 +33,11 @@ export const addRunCommand: AddCommand = (program: Command, frame) => {
   cmd.action(
     frame.action(async ([casePath], options, io) => {
       const loaded = await loadCase(resolve(io.cwd, casePath!), options.set);
+      // a gate naming an unknown metric is bad input: say so before anything is written
+      checkGateMetrics(
+        options.failIf,
+        summaryMetricNames(summarySettings(loaded.case), columnsOf(kernelGroups())),
+      );
       const outDir = options.out ? resolve(io.cwd, options.out) : defaultOutDir(casePath!, io.cwd);
       const showBar = !options.quiet && !options.json && process.stderr.isTTY === true;
       const bar = showBar
