@@ -39,6 +39,25 @@ export interface EventOutcome {
   readonly socAtEnd: Float64Array;
 }
 
+/**
+ * Receives every segment of an outage (replay and diagnostics; never used in a batch run).
+ * Arrays are the model's own and are overwritten by the next segment: copy what you keep.
+ */
+export interface OutageTraceSink {
+  record(
+    startH: number,
+    durationH: number,
+    demandKw: number,
+    servedKw: number,
+    spilledKw: number,
+    /** Per source, kW (battery: + discharging, - charging). */
+    outputKw: Float64Array,
+    /** Per source (batteries), state of charge at the end of the segment. */
+    socFraction: Float64Array,
+    down: boolean,
+  ): void;
+}
+
 /** The two calls into other models that the outage needs. */
 export interface OutageHooks {
   /** Expected load per load and resource-limited available power per source at an hour (0-8759). */
@@ -124,6 +143,8 @@ export class OutageModel {
   /** Operating point of a contingency (preallocated). */
   readonly op: Scenario;
   readonly flows = new SegmentFlows();
+  /** Set by simulateOutage for the duration of one outage when a trace is asked for. */
+  trace: OutageTraceSink | null = null;
   /** The island is down (shut down, not yet restarted), since downSinceH. */
   down = false;
   downSinceH = 0;

@@ -162,6 +162,7 @@ export function advanceSegment(
     if (demandKw > 0) out.lolH += h;
     if (critKw > 0) loseCritical(out, tH);
     out.segments++;
+    m.trace?.record(tH, h, demandKw, 0, 0, m.outKw, m.soc, true);
     return segEnd;
   }
 
@@ -252,5 +253,15 @@ export function advanceSegment(
   const critDemandKw = m.tierDemandKw[TIER_CRITICAL]! + m.tierCappedKw[TIER_CRITICAL]!;
   if (critUnservedKw > SHED_REL_TOL * critDemandKw) loseCritical(out, tH);
   out.segments++;
+  m.trace?.record(
+    tH,
+    h,
+    f.demandKw + f.cappedKw,
+    f.demandKw - f.shedKw,
+    f.curtailKw + f.dumpKw,
+    m.outKw,
+    m.soc,
+    false,
+  );
   return segEnd;
 }

@@ -33,6 +33,7 @@ import {
   type EventOutcome,
   KIND_BATTERY,
   type OutageModel,
+  type OutageTraceSink,
   TIER_CRITICAL,
 } from './outage-model.js';
 import type { OutageResult } from './outage-result.js';
@@ -45,7 +46,7 @@ import {
   TIME_EPS_H,
 } from './outage-segment.js';
 
-export type { EventOutcome, OutageHooks } from './outage-model.js';
+export type { EventOutcome, OutageHooks, OutageTraceSink } from './outage-model.js';
 export { buildOutageModel, OutageModel } from './outage-model.js';
 export { OutageResult } from './outage-result.js';
 
@@ -73,14 +74,19 @@ export function compileOutage(c: Case, sampler: SamplerContext, island: Island):
   });
 }
 
-/** Simulates the outage of scenario `sc` after its frequency event `ev`, into `out`. */
+/**
+ * Simulates the outage of scenario `sc` after its frequency event `ev`, into `out`; `trace`
+ * receives every segment (for replay).
+ */
 export function simulateOutage(
   m: OutageModel,
   sc: Scenario,
   ev: EventOutcome,
   out: OutageResult,
+  trace?: OutageTraceSink,
 ): void {
   out.reset();
+  m.trace = trace ?? null;
   const n = m.sourceCount;
   const outageH = sc.outageDurationH;
   out.outageH = outageH;
@@ -176,6 +182,7 @@ export function simulateOutage(
 
   if (!out.criticalLost) out.survivedH = outageH;
   out.worstContingency = describeWorstContingency(m);
+  m.trace = null;
 }
 
 /** The hour's load and available power: the scenario's own in the event hour, then the sampler's. */
