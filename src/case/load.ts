@@ -39,6 +39,12 @@ export const MAX_CASE_BYTES = 8 * 1024 * 1024;
 export const MAX_ALIAS_COUNT = 100;
 /** Deepest nesting of mappings and lists; the schema itself needs 6. */
 export const MAX_DEPTH = 32;
+/**
+ * Bracket depth refused before parsing, to spare the parser absurd input. Higher than MAX_DEPTH
+ * because unclosed brackets inside strings and comments also count here; the exact depth check
+ * runs on the parsed data.
+ */
+export const MAX_FLOW_DEPTH = 256;
 
 /** The deepest nesting of objects and lists in `value` (iterative, so no stack overflow). */
 export function nestingDepth(value: unknown): number {
@@ -64,7 +70,6 @@ function flowDepth(text: string): number {
       depth += 1;
       if (depth > deepest) deepest = depth;
     } else if ((ch === 0x5d || ch === 0x7d) && depth > 0) depth -= 1;
-    else if (ch === 0x0a) depth = Math.min(depth, deepest); // keep counting across lines
   }
   return deepest;
 }
@@ -91,7 +96,7 @@ export function decodeCaseText(bytes: Uint8Array, path: string): string {
     );
   }
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1);
-  if (text.trim() === '' || /^(\s*#[^\n]*\n?)*\s*$/.test(text))
+  if (text.split('\n').every((line) => line.trim() === '' || line.trimStart().startsWith('#')))
     throw fileProblem(
       path,
       'expected a case file (YAML or JSON), got an empty file (only blanks or comments)',
@@ -108,10 +113,10 @@ function looksLikeJson(path: string, text: string): boolean {
 
 /** Parses case text (YAML or JSON) into raw input; throws CaseError on syntax or safety problems. */
 export function parseCaseText(text: string, path: string): unknown {
-  if (flowDepth(text) > MAX_DEPTH)
+  if (flowDepth(text) > MAX_FLOW_DEPTH)
     throw fileProblem(
       path,
-      `expected nesting at most ${MAX_DEPTH} levels deep, got deeper bracket nesting`,
+      `expected nesting at most ${MAX_DEPTH} levels deep, got more than ${MAX_FLOW_DEPTH} nested brackets`,
     );
   let raw: unknown;
   if (looksLikeJson(path, text)) {

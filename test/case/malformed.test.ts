@@ -115,6 +115,20 @@ describe('generated malformed files', () => {
     );
   });
 
+  it('refuses absurd bracket nesting before parsing, and comment-only files quickly', async () => {
+    const deep = join(tmp, 'brackets.json');
+    writeFileSync(deep, `{"name": ${'['.repeat(100_000)}${']'.repeat(100_000)}}`);
+    const io = memoryIo();
+    expect(await runCli(['check', deep], io)).toBe(2);
+    expect(io.err).toContain('nested brackets');
+    // 100k comment lines then a word: a backtracking comment regex would never finish here
+    const comments = join(tmp, 'comments.yaml');
+    writeFileSync(comments, `${'# c\n'.repeat(100_000)}name: x\n`);
+    const io2 = memoryIo();
+    expect(await runCli(['check', comments], io2)).toBe(2);
+    expect(io2.err).toContain('/system: expected a mapping of keys (required)');
+  });
+
   it('refuses deep block nesting that brackets do not show', async () => {
     const file = join(tmp, 'deep-block.yaml');
     let text = '';
