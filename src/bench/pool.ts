@@ -9,7 +9,8 @@
  * - pool_overhead_fraction: 1 - one-worker rate / in-thread rate (what the pool, transfer,
  *   Arrow writer and summary add per scenario);
  * - peakRssMb(n): peak memory of an n-scenario run in a child process (`peak_rss_mb_1e6` with
- *   n = 1e6; it takes n / full_scenarios_per_s_all_workers seconds).
+ *   n = 1e6; it takes n / full_scenarios_per_s_all_workers seconds);
+ * - writerPeakRssMb(n): the same for the writer and summary alone on synthetic rows.
  * Timing belongs here, never in tests.
  */
 import { execFileSync } from 'node:child_process';
@@ -72,10 +73,22 @@ export async function benchPool(
  * `dist/` (it runs dist/bench/rss-child.js).
  */
 export function peakRssMb(scenarios = 1_000_000): number {
+  return childPeakRssMb(demoCasePath, scenarios);
+}
+
+/**
+ * Peak resident memory (MB) of the main-thread half of a run at `rows` rows (writer and summary,
+ * synthetic column values): `writerPeakRssMb(1e7)` shows the 10-million-row streaming bound.
+ */
+export function writerPeakRssMb(rows = 10_000_000): number {
+  return childPeakRssMb('--writer', rows);
+}
+
+function childPeakRssMb(first: string, count: number): number {
   const child = fileURLToPath(new URL('./rss-child.js', import.meta.url));
   const dir = mkdtempSync(join(tmpdir(), 'holdfast-rss-'));
   try {
-    const out = execFileSync(process.execPath, [child, demoCasePath, String(scenarios), dir], {
+    const out = execFileSync(process.execPath, [child, first, String(count), dir], {
       encoding: 'utf8',
       maxBuffer: 1 << 20,
     });
