@@ -6,18 +6,23 @@
  * and writes the paired differences, the drivers of each design and the plain-words table.
  *
  * Folder: <outDir>/base/ and <outDir>/variant/ (each a complete run folder), and
- * <outDir>/comparison.arrow. The seed and scenario count are the base's (or the options'), for
+ * <outDir>/comparison.arrow. `compareRunFolders` pairs two existing run folders instead (the
+ * merged shards of each design, say). The seed and scenario count are the base's (or the options'), for
  * both designs, whatever the variant file says.
  */
 import { join } from 'node:path';
 import type { LoadedCase } from '../case/load.js';
 import type { Case } from '../case/schema.js';
+import { CaseError, type CaseProblem, RunError } from '../errors.js';
+import { readManifest } from '../results/manifest.js';
 import type { ShardSpec } from '../run/plan.js';
 import { type RunOutcome, runAssessment } from '../run/run.js';
-import { type ComparisonResult, compareDesigns } from './comparison.js';
+import { type ComparisonResult, compareDesigns, type SummaryLike } from './comparison.js';
 import { writeComparisonArrow } from './designOutputs.js';
+import { readArrowFile } from './designTable.js';
 import { comparisonText } from './designText.js';
 import type { DriversResult } from './drivers.js';
+import type { OutcomeContext } from './outcomes.js';
 import { analyseRunDrivers } from './runDrivers.js';
 import { readScenarioFrame } from './scenarioFrame.js';
 
@@ -140,4 +145,91 @@ function stopped(
     confidenceLevel: level,
     text: `Not compared: ${why}; the run folders are marked partial.\n`,
   };
+}
+
+/** A summary.arrow file as rows (metric, estimate, ci_low, ci_high, unit). */
+function readSummaryRows(path: string): SummaryLike[] {
+  const t = readArrowFile(path);
+  const col = (name: string) => {
+    const c = t.getChild(name);
+    if (!c) throw new RunError(`${path}: no ${name} column`);
+    return c;
+  };
+  const [metric, estimate, low, high, unit] = [
+    'metric',
+    'estimate',
+    'ci_low',
+    'ci_high',
+    'unit',
+  ].map(col);
+  return Array.from({ length: t.numRows }, (_, i) => ({
+    metric: String(metric!.get(i)),
+    estimate: Number(estimate!.get(i)),
+    ciLow: Number(low!.get(i)),
+    ciHigh: Number(high!.get(i)),
+    unit: String(unit!.get(i)),
+  }));
+}
+
+/**
+ * Compares two finished run folders (e.g. the merged shards of each design) without running
+ * anything: both must be complete runs of the same seed and scenario ids. Writes
+ * `<outDir>/comparison.arrow`.
+ */
+export function compareRunFolders(
+  baseDir: string,
+  variantDir: string,
+  outDir: string,
+  names: { baseName: string; variantName: string },
+): {
+  comparison: ComparisonResult;
+  comparisonPath: string;
+  confidenceLevel: number;
+  variantSummary: SummaryLike[];
+  text: string;
+} {
+  const mb = readManifest(join(baseDir, 'run.json'));
+  const mv = readManifest(join(variantDir, 'run.json'));
+  const problems: CaseProblem[] = [];
+  for (const [dir, m] of [
+    [baseDir, mb],
+    [variantDir, mv],
+  ] as const)
+    if (m.status !== 'complete')
+      problems.push({ path: dir, message: 'expected a complete run folder, got a partial one' });
+  if (String(mb.seed) !== String(mv.seed))
+    problems.push({
+      path: variantDir,
+      message: `expected the base's seed ${mb.seed} (common random numbers), got ${mv.seed}`,
+    });
+  if (mb.confidenceLevel !== mv.confidenceLevel)
+    problems.push({
+      path: variantDir,
+      message: `expected the base's confidence level ${mb.confidenceLevel}, got ${mv.confidenceLevel}`,
+    });
+  if (problems.length > 0) throw new CaseError(problems);
+  const level = mb.confidenceLevel;
+  const definition = (d: string): OutcomeContext['failureDefinition'] =>
+    d === 'shutdown-only' ? 'shutdown-only' : 'shutdown-or-critical-loss';
+  const variantSummary = readSummaryRows(join(variantDir, 'summary.arrow'));
+  const comparison = compareDesigns({
+    base: readScenarioFrame(join(baseDir, 'scenarios.arrow')),
+    variant: readScenarioFrame(join(variantDir, 'scenarios.arrow')),
+    baseSummary: readSummaryRows(join(baseDir, 'summary.arrow')),
+    variantSummary,
+    baseFailureDefinition: definition(mb.failureDefinition),
+    variantFailureDefinition: definition(mv.failureDefinition),
+    baseRatePerYear: mb.islandingRatePerYear,
+    variantRatePerYear: mv.islandingRatePerYear,
+    confidenceLevel: level,
+    identicalDesigns: mb.caseContentSha256 === mv.caseContentSha256,
+  });
+  const comparisonPath = writeComparisonArrow(outDir, comparison.rows, level);
+  const text = comparisonText(comparison.rows, {
+    nPairs: comparison.nPairs,
+    level,
+    ...names,
+    dir: outDir,
+  });
+  return { comparison, comparisonPath, confidenceLevel: level, variantSummary, text };
 }

@@ -1,19 +1,28 @@
 /**
  * `holdfast compare BASE [VARIANT]`: two designs on the same scenarios (src/design/compare.ts).
  * VARIANT is a second case file; without it the variant is BASE with the `--set` overrides.
- * With both, `--set` changes the variant only (the design under test).
+ * With both, `--set` changes the variant only (the design under test). Two run folders instead
+ * of case files are paired as they are (the merged shards of each design, say): nothing runs.
  */
+import { existsSync, statSync } from 'node:fs';
 import { basename, extname, resolve } from 'node:path';
 import type { Command } from 'commander';
 import { loadCase } from '../../case/load.js';
-import { runComparison } from '../../design/compare.js';
+import { compareRunFolders, runComparison } from '../../design/compare.js';
 import { driversText } from '../../design/designText.js';
 import { knownSummaryMetrics } from '../../design/outcomes.js';
-import { anyGateExceeded, checkGateMetrics, evaluateRiskGates } from '../../design/riskGate.js';
+import {
+  anyGateExceeded,
+  checkGateMetrics,
+  evaluateRiskGates,
+  type GateRow,
+  type RiskGate,
+} from '../../design/riskGate.js';
 import { RunError } from '../../errors.js';
 import { screeningCaution } from '../../results/manifest.js';
-import { exitCode, InterruptedError, usageError } from '../exit.js';
+import { type ExitCode, exitCode, InterruptedError, usageError } from '../exit.js';
 import type { AddCommand } from '../frame.js';
+import type { CliIo } from '../io.js';
 import { addOptions, commonRunOptions } from '../options.js';
 
 const stem = (p: string) => basename(p, extname(p));
@@ -27,6 +36,14 @@ export function defaultCompareDir(basePath: string, variantPath: string | undefi
   );
 }
 
+/** The --fail-if gates on the variant's summary: exit 1 when one is exceeded. */
+function judgeGates(summary: readonly GateRow[], gates: readonly RiskGate[], io: CliIo): ExitCode {
+  if (gates.length === 0) return exitCode.ok;
+  const verdicts = evaluateRiskGates(summary, gates);
+  for (const v of verdicts) io.stderr(`holdfast: variant ${v.text}\n`);
+  return anyGateExceeded(verdicts) ? exitCode.gateExceeded : exitCode.ok;
+}
+
 export const addCompareCommand: AddCommand = (program: Command, frame) => {
   const cmd = program
     .command('compare')
@@ -37,12 +54,38 @@ export const addCompareCommand: AddCommand = (program: Command, frame) => {
       'Runs both designs on the same seed and scenario ids (common random numbers), pairs the ' +
         'scenarios and writes comparison.arrow with every summary metric, its difference and a ' +
         'paired confidence interval, plus base/ and variant/ run folders with drivers.arrow. ' +
-        '--set changes the variant. --fail-if gates judge the variant. ' +
+        '--set changes the variant. --fail-if gates judge the variant. Given two run folders ' +
+        'instead of case files, pairs them as they are (e.g. merged shards) without running. ' +
         'Screening estimates, not engineering approval.',
     );
   addOptions(cmd, commonRunOptions);
   cmd.action(
     frame.action(async ([basePath, variantPath], options, io) => {
+      const isDir = (p: string | undefined) =>
+        p !== undefined &&
+        existsSync(resolve(io.cwd, p)) &&
+        statSync(resolve(io.cwd, p)).isDirectory();
+      if (isDir(basePath) && isDir(variantPath)) {
+        // two finished run folders (e.g. merged shards): pair them, run nothing
+        if (options.set.length > 0)
+          throw usageError('--set', 'expected no --set when comparing two run folders');
+        const outDir = options.out
+          ? resolve(io.cwd, options.out)
+          : resolve(io.cwd, 'results', `${basename(basePath!)}-vs-${basename(variantPath!)}`);
+        const folders = compareRunFolders(
+          resolve(io.cwd, basePath!),
+          resolve(io.cwd, variantPath!),
+          outDir,
+          { baseName: basename(basePath!), variantName: basename(variantPath!) },
+        );
+        if (options.json)
+          io.stdout(
+            `${JSON.stringify({ comparison: folders.comparison.rows, scenarios: folders.comparison.nPairs, confidenceLevel: folders.confidenceLevel }, null, 2)}\n`,
+          );
+        else if (!options.quiet) io.stdout(`${folders.text}${screeningCaution}\n`);
+        for (const w of folders.comparison.warnings) io.stderr(`holdfast: ${w}\n`);
+        return judgeGates(folders.variantSummary, options.failIf, io);
+      }
       if (!variantPath && options.set.length === 0)
         throw usageError(
           'VARIANT',
@@ -110,12 +153,7 @@ export const addCompareCommand: AddCommand = (program: Command, frame) => {
         if (reason === 'interrupted') throw new InterruptedError();
         throw new RunError(`compare stopped: ${reason ?? 'a run ended partial'}`);
       }
-      if (options.failIf.length > 0 && outcome.variant) {
-        const verdicts = evaluateRiskGates(outcome.variant.summary, options.failIf);
-        for (const v of verdicts) io.stderr(`holdfast: variant ${v.text}\n`);
-        if (anyGateExceeded(verdicts)) return exitCode.gateExceeded;
-      }
-      return exitCode.ok;
+      return judgeGates(outcome.variant?.summary ?? [], options.failIf, io);
     }),
   );
 };
