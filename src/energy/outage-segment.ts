@@ -178,16 +178,19 @@ export function advanceSegment(
   let limiterH = 0;
   for (let i = 0; i < m.sourceCount; i++) {
     const p = m.outKw[i]!;
-    if (p === 0) continue;
-    let dtH = Number.POSITIVE_INFINITY;
     const kind = m.kind[i];
-    if (kind === KIND_BATTERY) {
+    let dtH = Number.POSITIVE_INFINITY;
+    if (kind === KIND_GENSET) {
+      // A running set burns its no-load fuel even at zero output.
+      if (m.fuelTracked[i] === 1 && m.running[i] === 1 && m.fuelLeft[i]! > 0)
+        dtH = m.fuelLeft[i]! / fuelRateLPerH(m.fuelNoLoadLPerH[i]!, m.fuelSlopeLPerKwh[i]!, p);
+    } else if (p === 0) {
+      continue;
+    } else if (kind === KIND_BATTERY) {
       dtH =
         p > 0
           ? hoursToFloor(m.soc[i]!, m.socMin[i]!, m.energyKwh[i]!, m.etaDischarge[i]!, p)
           : hoursToFull(m.soc[i]!, m.socMax[i]!, m.energyKwh[i]!, m.etaCharge[i]!, -p);
-    } else if (kind === KIND_GENSET && m.fuelTracked[i] === 1) {
-      dtH = m.fuelLeft[i]! / fuelRateLPerH(m.fuelNoLoadLPerH[i]!, m.fuelSlopeLPerKwh[i]!, p);
     } else if (kind === KIND_FUELCELL) {
       dtH = m.fuelLeft[i]! / p;
     }

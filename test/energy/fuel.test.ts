@@ -73,6 +73,34 @@ describe('genset fuel over an outage', () => {
     expect(out.unservedCriticalKwh).toBeCloseTo(50 * (24 - dryH), 6);
   });
 
+  it('burns the no-load fuel F0 of a set idling at zero output, down to a dry tank', () => {
+    const c = inventedCase(
+      [
+        {
+          id: 'g1',
+          bus: 'main',
+          kind: 'genset',
+          ratingKw,
+          inertiaS: 1,
+          minLoadingFraction: 0,
+          fuelNoLoadLPerH: f0,
+          fuelFullLoadLPerH: f1,
+          fuelTankL: 6,
+        },
+      ],
+      [load('plant', 'sheddable', 100)],
+    );
+    const cond = (_h: number, outLoad: Float64Array, outAvail: Float64Array) => {
+      outLoad[0] = 0;
+      outAvail[0] = ratingKw;
+    };
+    const m = buildOutageModel(c, new FakeHooks(c, 0, cond));
+    const out = new OutageResult(1, 1);
+    simulateOutage(m, scenarioFor(c, 0, 5, cond), new FakeEvent(1, 1), out);
+    expect(out.fuelUsedL).toBeCloseTo(6, 12); // F0 = 3 L/h: dry 2 h after the event
+    expect(out.shutdownHour).toBeCloseTo(60 / 3600 + 6 / f0, 12);
+  });
+
   it('rejects a tank without a fuel curve, naming the field', () => {
     expect(() =>
       buildOutageModel(
