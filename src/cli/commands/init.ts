@@ -48,7 +48,11 @@ export const addInitCommand: AddCommand = (program, frame) => {
         await writeFile(temporary, starterCaseYaml(), { encoding: 'utf8', flag: 'wx' });
         await rename(temporary, target);
       } catch (err) {
-        await unlink(temporary).catch(() => undefined); // best effort: the temp file may not exist
+        // remove a half-written temporary; it may not exist when the write itself failed
+        await unlink(temporary).catch((e: NodeJS.ErrnoException) => {
+          if (e.code !== 'ENOENT')
+            io.stderr(`holdfast: could not remove ${temporary}: ${e.message}\n`);
+        });
         const code = (err as NodeJS.ErrnoException).code;
         if (code === 'ENOENT' || code === 'EACCES' || code === 'EROFS' || code === 'ENOTDIR')
           throw CaseError.single(name, `expected a writable place, got ${code}`);
