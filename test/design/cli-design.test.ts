@@ -94,8 +94,35 @@ describe('holdfast compare', () => {
       expect(f.metadata.get('description'), f.name).toBeTruthy();
     }
     for (const d of ['base', 'variant'])
-      for (const f of ['scenarios.arrow', 'summary.arrow', 'run.json'])
+      for (const f of ['scenarios.arrow', 'summary.arrow', 'run.json', 'drivers.arrow'])
         expect(existsSync(join(out, d, f)), `${d}/${f}`).toBe(true);
+    // drivers.arrow of a real run: per driver, weight shares times conditional probabilities
+    // add back to the summary's estimate (law of total probability), read with polars
+    const drivers = pl.readIPC(readFileSync(join(out, 'base', 'drivers.arrow')));
+    const summary = pl.readIPC(readFileSync(join(out, 'base', 'summary.arrow')));
+    const estimateOf = (m: string) =>
+      (
+        summary
+          .filter(pl.col('metric').eq(pl.lit(m)))
+          .getColumn('estimate')
+          .toArray() as number[]
+      )[0]!;
+    for (const [outcome, metric] of [
+      ['shutdown', 'p_shutdown'],
+      ['load_shed', 'p_load_shed'],
+    ] as const)
+      for (const driver of ['month', 'hour_of_day', 'soc_band', 'deficit_band']) {
+        const rows = drivers.filter(
+          pl
+            .col('outcome')
+            .eq(pl.lit(outcome))
+            .and(pl.col('driver').eq(pl.lit(driver))),
+        );
+        const q = rows.getColumn('weight_share').toArray() as number[];
+        const p = rows.getColumn('probability').toArray() as number[];
+        const total = q.reduce((s, x, i) => s + x * p[i]!, 0);
+        expect(total, `${outcome} by ${driver}`).toBeCloseTo(estimateOf(metric), 12);
+      }
   });
 
   it('gives a paired interval much narrower than the unpaired one on the demo case', async () => {
