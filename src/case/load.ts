@@ -125,6 +125,17 @@ export function parseCaseText(text: string, path: string): unknown {
     } catch (err) {
       throw fileProblem(path, `expected valid JSON, got a syntax error: ${(err as Error).message}`);
     }
+    // JSON.parse keeps the last of two equal keys silently; YAML 1.2 reads JSON and reports them
+    const duplicates = YAML.parseDocument(text, { uniqueKeys: true }).errors.filter(
+      (e) => e.code === 'DUPLICATE_KEY',
+    );
+    if (duplicates.length > 0)
+      throw new CaseError(
+        duplicates.slice(0, 20).map((e) => ({
+          path: `${path}:${e.linePos?.[0]?.line ?? '?'}:${e.linePos?.[0]?.col ?? '?'}`,
+          message: 'expected each key once in its object, got a key given twice',
+        })),
+      );
   } else {
     const doc = YAML.parseDocument(text, {
       schema: 'core',

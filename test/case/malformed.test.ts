@@ -32,6 +32,7 @@ const expectations: Record<string, string> = {
   'disconnected.yaml': '/network/buses/1',
   'duplicate-bus.yaml': '/network/buses/2/id',
   'duplicate-key.yaml': `${dir}/duplicate-key.yaml:3`,
+  'duplicate-key-json.txt': `${dir}/duplicate-key-json.txt:2`,
   'duplicate-source-ids.yaml': '/sources/1/id',
   'empirical-weights.yaml': '/events/outageDurationH/weights',
   'empty.yaml': `${dir}/empty.yaml`,
