@@ -43,4 +43,70 @@ describe('parseCommandLine', () => {
     expect(parsed.args).toEqual([]);
     expect(parsed.options.debug).toBe(true);
   });
+
+  it('collects repeatable options and positional arguments of check', async () => {
+    const parsed = await parseCommandLine([
+      'check',
+      'cases/kestrel-island.yaml',
+      '--set',
+      'sources.bess.energyKwh=2000',
+      '--set',
+      'events.islandingRatePerYear=4',
+      '--json',
+    ]);
+    expect(parsed).toEqual({
+      command: 'check',
+      args: ['cases/kestrel-island.yaml'],
+      options: expect.objectContaining({
+        set: ['sources.bess.energyKwh=2000', 'events.islandingRatePerYear=4'],
+        json: true,
+        quiet: false,
+      }),
+    });
+  });
+
+  it('types the common run options (the run command is parsed, not run)', async () => {
+    const parsed = await parseCommandLine([
+      'run',
+      'cases/kestrel-island.yaml',
+      '--scenarios',
+      '2000',
+      '--seed',
+      '9',
+      '--shard',
+      '3/4',
+      '--fail-if',
+      'p_shutdown>0.01',
+      '--quiet',
+    ]);
+    expect(parsed.command).toBe('run');
+    expect(parsed.options).toMatchObject({
+      scenarios: 2000,
+      seed: 9,
+      shard: { index: 3, count: 4 },
+      failIf: [{ metric: 'p_shutdown', threshold: 0.01, direction: '>' }],
+      quiet: true,
+    });
+  });
+
+  it('rejects a bad option value with a CaseError naming the option', async () => {
+    await expect(parseCommandLine(['run', 'x.yaml', '--scenarios', 'many'])).rejects.toThrow(
+      /--scenarios: expected a whole number of at least 1, got "many"/,
+    );
+  });
+});
+
+describe('holdfast check --json', () => {
+  it('prints one JSON document with the summary', async () => {
+    const io = memoryIo();
+    expect(await runCli(['check', 'cases/kestrel-island.yaml', '--json'], io)).toBe(0);
+    const doc = JSON.parse(io.out) as {
+      valid: boolean;
+      sha256: string;
+      summary: { peakKw: number };
+    };
+    expect(doc.valid).toBe(true);
+    expect(doc.sha256).toMatch(/^[0-9a-f]{64}$/);
+    expect(doc.summary.peakKw).toBe(2470);
+  });
 });
