@@ -23,8 +23,6 @@ export const STATES_PER_SOURCE = 4;
 /** Slot of a source's delivered energy within its four states. */
 export const ENERGY_SLOT = 3;
 
-/** Wind converter power-loop lag, s (fast inverter control, from memory). */
-const WIND_CONVERTER_LAG_S = 0.05;
 /** Genset motoring limit: friction and pumping losses, fraction of rating (common practice, no source). */
 const GENSET_MOTORING_FRACTION = 0.15;
 /** 90 % response time to first-order time constant: t90 = ln(10) tau. */
@@ -105,8 +103,14 @@ export class Island {
   readonly rotorRecovering: Uint8Array;
   readonly dispatchPu: Float64Array;
   readonly availablePu: Float64Array;
-  readonly gfSaturated: Uint8Array;
   readonly outputPu: Float64Array;
+  /** Units whose output is algebraic in the RoCoF: p = clamp(c - 2 k d(dw)/dt, lo, hi). */
+  readonly algC: Float64Array;
+  readonly algK: Float64Array;
+  readonly algLo: Float64Array;
+  readonly algHi: Float64Array;
+  /** 1 while unit i is algebraic in the RoCoF in the current evaluation; 2 once clamped. */
+  readonly algState: Uint8Array;
   readonly loadServedPu: Float64Array;
   readonly loadKwAtEvent: Float64Array;
   readonly monActive: Uint8Array;
@@ -114,6 +118,12 @@ export class Island {
   readonly monTimerS: Float64Array;
   readonly monActionTimerS: Float64Array;
   readonly monValue: Float64Array;
+  /** Served load and its damping sum(P_j D_j), pu (loads.ts). */
+  loadTotalPu = 0;
+  loadDampingPu = 0;
+  /** Earliest pending timer, s, and whether it must be recomputed (simulate.ts). */
+  nextTimerS = Number.POSITIVE_INFINITY;
+  timersDirty = true;
   /** Set by the equations when no unsaturated grid-forming source or machine holds frequency. */
   collapsed = false;
   /** RoCoF of the last derivative evaluation, pu/s. */
@@ -168,8 +178,12 @@ export class Island {
     this.rotorRecovering = u8();
     this.dispatchPu = f64();
     this.availablePu = f64();
-    this.gfSaturated = u8();
     this.outputPu = f64();
+    this.algC = f64();
+    this.algK = f64();
+    this.algLo = f64();
+    this.algHi = f64();
+    this.algState = u8();
 
     const sb = this.baseKw;
     const f0 = this.f0Hz;
@@ -230,7 +244,6 @@ export class Island {
         }
         case 'wind': {
           this.kind[i] = SourceKind.wind;
-          this.lagTimeS[i] = WIND_CONVERTER_LAG_S;
           // IEEE 1547-2018 default over-frequency droop (36 mHz, 5 %) applied to wind too.
           this.overFrequencyDeadbandPu[i] = 0.036 / f0;
           this.overFrequencyGainPu[i] = ratingPu / 0.05;

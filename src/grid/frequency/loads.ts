@@ -7,8 +7,8 @@
  */
 import type { Island } from './island.js';
 
-/** The island's load at deviation dw, pu; also stores nothing (pure). */
-export function loadDemandPu(isl: Island, dwPu: number): number {
+/** Recomputes the island's served load and its damping, pu (after separation and each shed). */
+export function refreshLoadTotals(isl: Island): void {
   let served = 0;
   let damping = 0;
   for (let j = 0; j < isl.loadCount; j++) {
@@ -16,5 +16,11 @@ export function loadDemandPu(isl: Island, dwPu: number): number {
     served += p;
     damping += p * isl.loadDamping[j]!;
   }
-  return served + damping * dwPu;
+  isl.loadTotalPu = served;
+  isl.loadDampingPu = damping;
+}
+
+/** The island's load at deviation dw, pu (totals kept by refreshLoadTotals). */
+export function loadDemandPu(isl: Island, dwPu: number): number {
+  return isl.loadTotalPu + isl.loadDampingPu * dwPu;
 }

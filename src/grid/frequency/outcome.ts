@@ -36,6 +36,7 @@ export class OutcomeTracker {
   private sampleS = 0.02;
   private readonly ring = new Float64Array(SAMPLES_PER_WINDOW + 1);
   private count = 0;
+  private head = 0;
   private readonly slope = new FrequencySlope();
   /** Interior extremum of the last segment: theta (or -1) and value. */
   extremumTheta = -1;
@@ -52,7 +53,9 @@ export class OutcomeTracker {
     this.rocofNowPuPerS = 0;
     this.rocofReady = false;
     this.count = 0;
+    this.ring.fill(dw0Pu);
     this.ring[0] = dw0Pu;
+    this.head = 1;
     this.count = 1;
     this.nextSampleS = this.sampleS;
   }
@@ -97,15 +100,18 @@ export class OutcomeTracker {
       this.extremes(this.extremumPu, t0 + this.extremumTheta * h);
     this.extremes(integ.interpolateComponent(0, thetaEnd), tEnd);
     let sampled = false;
+    const ring = this.ring;
+    const len = ring.length;
     while (this.nextSampleS <= tEnd) {
       const v = integ.interpolateComponent(0, (this.nextSampleS - t0) / h);
       this.extremes(v, this.nextSampleS);
-      const slot = this.count % this.ring.length;
-      this.ring[slot] = v;
+      // Ring of the last SAMPLES_PER_WINDOW + 1 samples; `head` is where the next one goes, and
+      // after the write it holds the sample one window old (integer wrap: no modulo in the loop).
+      ring[this.head] = v;
+      this.head = this.head + 1 === len ? 0 : this.head + 1;
       this.count++;
       if (this.count > SAMPLES_PER_WINDOW) {
-        const old = this.ring[(this.count - 1 - SAMPLES_PER_WINDOW) % this.ring.length]!;
-        const r = (v - old) / this.windowS;
+        const r = (v - ring[this.head]!) / this.windowS;
         this.rocofNowPuPerS = r;
         this.rocofReady = true;
         const a = r < 0 ? -r : r;

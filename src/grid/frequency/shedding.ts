@@ -8,6 +8,7 @@
  */
 import type { EventResult } from './event-result.js';
 import { type Island, LoadTierCode } from './island.js';
+import { refreshLoadTotals } from './loads.js';
 
 /** Sheds one stage at time tS; returns the kW actually shed. */
 export function shedStage(isl: Island, stage: number, tS: number, out: EventResult): number {
@@ -30,6 +31,7 @@ export function shedStage(isl: Island, stage: number, tS: number, out: EventResu
       out.loadServedFraction[j] = atEvent > 0 ? (isl.loadServedPu[j]! * isl.baseKw) / atEvent : 1;
     }
   }
+  refreshLoadTotals(isl);
   out.shedKw += shedKw;
   out.shedStages++;
   if (tS < out.firstShedTimeS) out.firstShedTimeS = tS;

@@ -3,13 +3,15 @@
  * and load models into one ODE system for the integrator.
  *
  *   2 (sum_k E_k) d(dw)/dt = sum_i p_i - P_load(dw),   E_k = H_k S_k / S_b
- * over the online synchronous machines and the unsaturated grid-forming inverters (battery.ts),
- * whose output is algebraic in d(dw)/dt: the sum is solved for d(dw)/dt, units whose output would
- * pass a limit are clamped there (their inertia drops out) and it is solved again.
+ * over the online synchronous machines, plus the units whose output is algebraic in the RoCoF,
+ *   p_i = clamp(c_i - 2 k_i d(dw)/dt, lo_i, hi_i)
+ * (grid-forming inverters, battery.ts; wind synthetic inertia, wind.ts): the balance is solved
+ * for d(dw)/dt with every such unit in its linear range, units that would pass a limit are
+ * clamped there (their k drops out) and it is solved again, at most once per unit.
  * Notation: dw = x[0] = (f - f0)/f0, H = inertia constant on the unit's kVA, S_b = system.baseKva,
  * P_load from loads.ts. Source: Kundur, Power System Stability and Control, McGraw-Hill 1994,
  * sec. 3.9 and 11.1 (swing equation, M = 2H); REFERENCES.md 1.1.
- * If nothing holds the frequency (every grid-forming unit clamped), `collapsed` is set and the
+ * If nothing holds the frequency (no machine and every grid-forming unit clamped), `collapsed` is set and the
  * derivative is left at 0: the driver ends the run as a shutdown.
  */
 import type { OdeSystem } from '../../numeric/dormand-prince.js';
@@ -27,16 +29,20 @@ import { pvDerivatives } from './pv.js';
 import { windDerivatives, windOutputPu } from './wind.js';
 
 export class IslandEquations implements OdeSystem {
-  constructor(readonly isl: Island) {}
+  private readonly algList: Int32Array;
+  constructor(readonly isl: Island) {
+    this.algList = new Int32Array(isl.sourceCount);
+  }
 
   derivatives(_tS: number, x: Float64Array, dx: Float64Array): void {
     const isl = this.isl;
     const n = isl.sourceCount;
     const dw = x[0]!;
     const out = isl.outputPu;
+    const algList = this.algList;
+    let algCount = 0;
     let pSum = -loadDemandPu(isl, dw);
     let kinetic = 0;
-    let gfCount = 0;
     for (let i = 0; i < n; i++) {
       out[i] = 0;
       if (isl.online[i] === 0 || isl.ceased[i] === 1) continue;
@@ -48,14 +54,23 @@ export class IslandEquations implements OdeSystem {
           break;
         case SourceKind.battery:
           if (isl.gridForming[i] === 1) {
-            isl.gfSaturated[i] = 0;
-            gfCount++;
+            isl.algC[i] = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dw;
+            isl.algK[i] = isl.kineticPuS[i]!;
+            isl.algLo[i] = batteryLowLimitPu(isl, i);
+            isl.algHi[i] = batteryHighLimitPu(isl, i);
+            isl.algState[i] = 1;
+            algList[algCount++] = i;
             continue;
           }
           p = x[stateOffset(i)]!;
           break;
         case SourceKind.wind:
           p = windOutputPu(isl, i, x, dw);
+          if (p !== p) {
+            isl.algState[i] = 1;
+            algList[algCount++] = i;
+            continue;
+          }
           break;
         default:
           p = x[stateOffset(i)]!;
@@ -65,35 +80,39 @@ export class IslandEquations implements OdeSystem {
     }
     let rocof = 0;
     isl.collapsed = false;
-    // Grid-forming units: solve the swing equation with their algebraic outputs; clamp, repeat.
-    for (let pass = 0; pass <= gfCount; pass++) {
+    for (let pass = 0; pass <= algCount; pass++) {
       let num = pSum;
       let kin = kinetic;
-      for (let i = 0; i < n && gfCount > 0; i++) {
-        if (isl.kind[i] !== SourceKind.battery || isl.gridForming[i] === 0) continue;
-        if (isl.online[i] === 0 || isl.ceased[i] === 1) continue;
-        if (isl.gfSaturated[i] === 1) num += out[i]!;
+      let kinForming = kinetic;
+      for (let a = 0; a < algCount; a++) {
+        const i = algList[a]!;
+        if (isl.algState[i] === 2) num += out[i]!;
         else {
-          num += isl.dispatchPu[i]! - isl.droopGainPu[i]! * dw;
-          kin += isl.kineticPuS[i]!;
+          num += isl.algC[i]!;
+          kin += isl.algK[i]!;
+          if (isl.kind[i] === SourceKind.battery) kinForming += isl.algK[i]!;
         }
       }
-      if (kin <= 0) {
+      if (kinForming <= 0) {
         isl.collapsed = true;
         rocof = 0;
+        for (let a = 0; a < algCount; a++) {
+          const i = algList[a]!;
+          if (isl.algState[i] === 1) out[i] = Math.max(isl.algLo[i]!, 0);
+        }
         break;
       }
       rocof = num / (2 * kin);
       let changed = false;
-      for (let i = 0; i < n && gfCount > 0; i++) {
-        if (isl.kind[i] !== SourceKind.battery || isl.gridForming[i] === 0) continue;
-        if (isl.online[i] === 0 || isl.ceased[i] === 1 || isl.gfSaturated[i] === 1) continue;
-        const p = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dw - 2 * isl.kineticPuS[i]! * rocof;
-        const hi = batteryHighLimitPu(isl, i);
-        const lo = batteryLowLimitPu(isl, i);
+      for (let a = 0; a < algCount; a++) {
+        const i = algList[a]!;
+        if (isl.algState[i] === 2) continue;
+        const p = isl.algC[i]! - 2 * isl.algK[i]! * rocof;
+        const hi = isl.algHi[i]!;
+        const lo = isl.algLo[i]!;
         if (p > hi || p < lo) {
           out[i] = p > hi ? hi : lo;
-          isl.gfSaturated[i] = 1;
+          isl.algState[i] = 2;
           changed = true;
         } else out[i] = p;
       }
@@ -122,7 +141,7 @@ export class IslandEquations implements OdeSystem {
           pvDerivatives(isl, i, x, dx, dw);
           break;
         case SourceKind.wind:
-          windDerivatives(isl, i, x, dx, dw, rocof, out[i]!);
+          windDerivatives(isl, i, dx, dw, out[i]!);
           break;
         case SourceKind.fuelcell:
           fuelCellDerivatives(isl, i, x, dx, dw);

@@ -28,7 +28,13 @@ function run(
   const isl = compileIsland(c);
   const out = new EventResult(c.sources.length, c.loads.length);
   const trace = new RecordingTrace(dt);
-  simulateEvent(isl, makeScenario(c, o), { horizonS, rocofWindowS: 0.1 }, out, trace);
+  simulateEvent(
+    isl,
+    makeScenario(c, o),
+    { horizonS, rocofWindowS: 0.1, relTol: 1e-7, absTol: 1e-9 },
+    out,
+    trace,
+  );
   return { out, trace };
 }
 
