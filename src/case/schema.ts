@@ -213,6 +213,12 @@ export const gensetSchema = z.strictObject({
   isochronousGainPuPerS: nonNegative()
     .default(0)
     .describe('integral (secondary) gain, pu power per pu frequency per s; 0 = pure droop'),
+  swingDampingPu: nonNegative()
+    .max(200)
+    .default(2)
+    .describe(
+      'electrical damping of the rotor swing against other sources (damper windings), pu power per pu speed on the kVA rating; used by the small-signal check. 2 is a low classical-model value (from memory); Saadat Example 11.2 implies about 52 (REFERENCES 1.3d)',
+    ),
   rampKwPerS: positive().optional().describe('upward ramp limit; unlimited if omitted'),
   minLoadingFraction: fraction()
     .default(0.3)

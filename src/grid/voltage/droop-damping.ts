@@ -6,7 +6,9 @@
  *   omega_k = -m_k Pf_k,          m_k = droopPu_k * omega0 * S_base / S_k   (rad/s per pu)
  *   dPf_k/dt = omega_c,k (P_k - Pf_k)
  * Per genset k (per-unit speed w_k, mechanical power Pm_k on the system base):
- *   omega_k = omega0 w_k,  M_k dw_k/dt = Pm_k - P_k,  M_k = 2 H_k S_k / S_base
+ *   omega_k = omega0 w_k,  M_k dw_k/dt = Pm_k - P_k - D_s,k (S_k / S_base) w_k,
+ *   M_k = 2 H_k S_k / S_base, D_s the damper-winding damping (swingDampingPu; without it the
+ *   classical model leaves the swing of gensets against each other almost undamped)
  *   first-order governor   T_g dPm_k/dt = u_k - Pm_k
  *   second-order governor  Pm'' + 2 zeta omega_n Pm' + omega_n^2 Pm = omega_n^2 u_k
  *   u_k = -(S_k / S_base) w_k / R_k - z_k,   dz_k/dt = K_i (S_k / S_base) w_k   (isochronous)
@@ -53,6 +55,8 @@ export class DroopUnits {
   readonly isochronousGainPuPerS: Float64Array;
   /** Load damping assigned to the unit, pu power (system base) per pu frequency. */
   readonly loadDampingPu: Float64Array;
+  /** Gensets: swing damping of the damper windings, pu power per pu speed on the rating. */
+  readonly swingDampingPu: Float64Array;
   /** Work: index of each unit's first own state. */
   readonly firstState: Int32Array;
 
@@ -68,6 +72,7 @@ export class DroopUnits {
     this.governorDampingRatio = new Float64Array(capacity);
     this.isochronousGainPuPerS = new Float64Array(capacity);
     this.loadDampingPu = new Float64Array(capacity);
+    this.swingDampingPu = new Float64Array(capacity);
     this.firstState = new Int32Array(capacity);
   }
 }
@@ -135,6 +140,8 @@ export function assembleStateMatrix(
     // M dw/dt = Pm - P
     a[s * n + pm]! += 1 / m;
     addPowerRow(u, k, a, n, s, -1 / m, i, omega0RadPerS);
+    // damper windings: D_s w on the unit's rating opposes its own speed deviation
+    a[s * n + s]! -= (u.swingDampingPu[i]! * u.ratingPu[i]!) / m;
     const rGain = u.ratingPu[i]! / u.droopPu[i]!;
     const iso = u.isochronousGainPuPerS[i]! > 0;
     const z = s + 1 + u.governorOrder[i]!;

@@ -105,6 +105,7 @@ export interface NetworkModel {
   readonly governorNaturalRadPerS: Float64Array;
   readonly governorDampingRatio: Float64Array;
   readonly isochronousGainPuPerS: Float64Array;
+  readonly swingDampingPu: Float64Array;
   readonly filterRadPerS: Float64Array;
   /** Work arrays. */
   readonly busPvSlot: Int32Array;
@@ -131,6 +132,7 @@ export function compileNetwork(c: Case): NetworkModel {
   const governorNaturalRadPerS = new Float64Array(nS);
   const governorDampingRatio = new Float64Array(nS);
   const isochronousGainPuPerS = new Float64Array(nS);
+  const swingDampingPu = new Float64Array(nS);
   const filterRadPerS = new Float64Array(nS);
   c.sources.forEach((s, k) => {
     if (s.kind === 'genset') {
@@ -143,6 +145,7 @@ export function compileNetwork(c: Case): NetworkModel {
         governorDampingRatio[k] = s.governor.dampingRatio;
       }
       isochronousGainPuPerS[k] = s.isochronousGainPuPerS;
+      swingDampingPu[k] = s.swingDampingPu;
     } else if (s.kind === 'battery') {
       droopPu[k] = s.droopPu;
       // power-measurement filter corner taken as 1 / responseTimeConstantS (the case's only
@@ -173,6 +176,7 @@ export function compileNetwork(c: Case): NetworkModel {
     governorNaturalRadPerS,
     governorDampingRatio,
     isochronousGainPuPerS,
+    swingDampingPu,
     filterRadPerS,
     busPvSlot: new Int32Array(n),
     busGfKva: new Float64Array(n),
@@ -423,6 +427,7 @@ function assessDamping(
     units.governorNaturalRadPerS[a] = m.governorNaturalRadPerS[k]!;
     units.governorDampingRatio[a] = m.governorDampingRatio[k]!;
     units.isochronousGainPuPerS[a] = m.isochronousGainPuPerS[k]!;
+    units.swingDampingPu[a] = m.swingDampingPu[k]!;
     units.loadDampingPu[a] = (loadDampingPu * d.sourceKva[k]!) / runningKva;
   }
   const n = stateCount(units);

@@ -104,6 +104,36 @@ describe('reduced droop model', () => {
     expect(s.unstable).toBe(false);
   });
 
+  it('gives the damped swing of Saadat Example 11.2: omega_n 6.1405 rad/s, zeta 0.2131 (REFERENCES.md 1.3d)', () => {
+    // one machine against a stiff bus: H = 9.94 s, Ps = 1.9884 pu/rad, D = 0.138 pu per rad/s
+    // at 60 Hz, i.e. 0.138 * omega0 per pu speed; governor disabled by an infinite droop
+    const omega0 = 2 * Math.PI * 60;
+    const units = new DroopUnits(2);
+    units.count = 2;
+    units.kind[0] = UNIT_INVERTER; // the stiff bus: zero droop
+    units.ratingPu.fill(1);
+    units.filterRadPerS[0] = 10;
+    units.kind[1] = UNIT_GENSET;
+    units.droopPu[1] = 1e300;
+    units.inertiaS[1] = 9.94;
+    units.governorOrder[1] = 1;
+    units.governorTimeConstantS[1] = 1;
+    units.swingDampingPu[1] = 0.138 * omega0;
+    const ps = 1.9884;
+    const k = Float64Array.from([ps, -ps, -ps, ps]);
+    const n = stateCount(units);
+    const a = new Float64Array(n * n);
+    assembleStateMatrix(units, k, omega0, a);
+    const s = summary();
+    summariseModes(a, n, s);
+    // REFERENCES.md 1.3d lists 5 significant digits
+    expect(Math.abs(Math.hypot(s.criticalRealPerS, s.criticalImagRadPerS) - 6.1405)).toBeLessThan(
+      5e-4,
+    );
+    expect(Math.abs(s.minDampingRatio - 0.2131)).toBeLessThan(5e-5);
+    expect(Math.abs(s.criticalImagRadPerS - 5.9995)).toBeLessThan(5e-4);
+  });
+
   it('drives the low-frequency modes toward zero damping as three inverters raise their droop', () => {
     // invented all-inverter island: three 1 pu droop inverters on a line, 0.1 pu apart; the
     // behaviour Pogaku et al. (2007) report: the droop gain sets the low-frequency modes
