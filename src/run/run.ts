@@ -28,7 +28,7 @@ import {
 } from '../results/manifest.js';
 import { copyArrowToParquet } from '../results/parquet.js';
 import { exceedanceColumns, writeSmallTable, writeSummaryArrow } from '../results/summary-arrow.js';
-import { type KernelFaults, kernelGroups } from './kernel.js';
+import { compileKernel, type KernelFaults, kernelGroups } from './kernel.js';
 import {
   alignBatchSize,
   checkpoints,
@@ -44,7 +44,7 @@ import {
   type SummarySink,
   summarySettings,
 } from './summary-feed.js';
-import type { BatchTask, WorkerSetup } from './worker.js';
+import { type BatchTask, compileFailurePrefix, type WorkerSetup } from './worker.js';
 
 export interface RunOptions {
   /** Output folder (created if missing). */
@@ -137,7 +137,6 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   const specs = columnsOf(groups);
   const contentSha = caseContentSha256(input);
   const dir = opts.outDir;
-  mkdirSync(dir, { recursive: true });
   const paths = {
     dir,
     scenarios: join(dir, 'scenarios.arrow'),
@@ -174,6 +173,10 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
       );
   }
 
+  // compile once here too: a case the models reject is bad input (exit 2) before anything is
+  // written, rather than a failure in every worker
+  compileKernel(c, input.dir, { seed });
+  mkdirSync(dir, { recursive: true });
   const scenarioSink = new ArrowFileSink(paths.scenarios, encoder.schema);
   let written = 0;
   let stopReason: string | null = null;
@@ -239,6 +242,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
       const named = /scenario (\d+)/.exec(message);
       if (named)
         return new RunError(`scenario ${named[1]} failed twice: ${message}`, { cause: err });
+      if (message.startsWith(compileFailurePrefix)) return new RunError(message, { cause: err });
       // a worker that died names no id: rerun the batch one scenario at a time to find it
       for (let id = task.firstId; id < task.firstId + task.count; id++) {
         try {

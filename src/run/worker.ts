@@ -23,8 +23,16 @@ export interface BatchTask {
 
 let kernel: ScenarioKernel | undefined;
 
+/** Prefix of a compile failure, which names no scenario (the pool does not bisect it). */
+export const compileFailurePrefix = 'compiling the case in a worker';
+
 function kernelOf(setup: WorkerSetup): ScenarioKernel {
-  kernel ??= compileKernel(setup.case, setup.caseDir, { seed: setup.seed, faults: setup.faults });
+  if (kernel) return kernel;
+  try {
+    kernel = compileKernel(setup.case, setup.caseDir, { seed: setup.seed, faults: setup.faults });
+  } catch (err) {
+    throw new Error(`${compileFailurePrefix}: ${(err as Error).message}`, { cause: err });
+  }
   return kernel;
 }
 
