@@ -7,6 +7,7 @@
  * Paths are JSON-pointer-like (`/sources/2/socMinFraction`).
  */
 import type { CaseProblem } from '../errors.js';
+import { defaultShutdownLimitsHz } from '../grid/frequency/protection.js';
 import type { Case, Distribution } from './schema.js';
 
 type Problems = CaseProblem[];
@@ -154,6 +155,8 @@ function frequencies(c: Case, out: Problems) {
   let previous = Number.POSITIVE_INFINITY;
   let share = 0;
   const under = c.protection.shutdownUnderFrequencyHz;
+  // the frequency engine's default when the case gives none (src/grid/frequency/protection.ts)
+  const collapseHz = under ?? defaultShutdownLimitsHz(f0).underHz;
   c.protection.ufls.forEach((stage, i) => {
     const path = `/protection/ufls/${i}/thresholdHz`;
     if (stage.thresholdHz >= f0)
@@ -166,10 +169,10 @@ function frequencies(c: Case, out: Problems) {
         path,
         message: `expected a threshold below the previous stage's ${previous} Hz (highest first), got ${stage.thresholdHz}`,
       });
-    if (under !== undefined && stage.thresholdHz <= under)
+    if (stage.thresholdHz <= collapseHz)
       out.push({
         path,
-        message: `expected a threshold above shutdownUnderFrequencyHz (${under} Hz), got ${stage.thresholdHz}`,
+        message: `expected a threshold above the shutdown limit (${collapseHz} Hz${under === undefined ? ', the default' : ''}): a stage below it never acts, got ${stage.thresholdHz}`,
       });
     previous = stage.thresholdHz;
     share += stage.shareOfLoad;

@@ -56,6 +56,7 @@ const expectations: Record<string, string> = {
   'typo-key.yaml': '/sources/0/ratingKw',
   'ufls-above-nominal.yaml': '/protection/ufls/0/thresholdHz',
   'ufls-ascending.yaml': '/protection/ufls/1/thresholdHz',
+  'ufls-below-shutdown.yaml': '/protection/ufls/1/thresholdHz',
   'uniform-min-max.yaml': '/events/outageDurationH/min',
   'unknown-kind.yaml': '/sources/0/kind',
   'wind-speeds.yaml': '/sources/2/cutInMPerS',
