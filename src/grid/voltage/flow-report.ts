@@ -122,11 +122,7 @@ export function flowReport(c: Case, caseDir: string, hour?: number): FlowReport 
       : d.gridForming[k]
         ? (slot >= 0 ? flow.pvQ[slot]! : 0) * frac * base
         : output[k]! * d.sourceTanPhi[k]!;
-    const role = isRoot
-      ? 'angle reference'
-      : d.gridForming[k]
-        ? 'voltage-holding'
-        : 'grid-following';
+    const role = isRoot ? 'reference bus' : d.gridForming[k] ? 'voltage-holding' : 'grid-following';
     return { id: s.id, kind: s.kind, bus: s.bus, role, p_kw: p, q_kvar: q };
   });
   const modes = eigenvalues(m.stateMatrix, m.modes.stateCount)
