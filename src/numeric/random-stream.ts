@@ -28,6 +28,9 @@ export const streamPurpose = {
   latinHypercube: 4,
 } as const;
 
+/** Stands in for key 0, the all-zero state of xorshift128 (any nonzero constant works). */
+const zeroKeySubstitute = 0x6d2b79f5;
+
 // Odd 32-bit constant separating the seed from the id (golden-ratio constant, common practice).
 const seedSalt = 0x9e3779b9;
 
@@ -72,7 +75,7 @@ export function streamKey(
   h = fmix32((h ^ purpose) >>> 0);
   h = fmix32((h ^ keyHash) >>> 0);
   // xorshift128 with an all-zero state only returns zeros; remap the single bad key.
-  return (h === 0 ? 0x6d2b79f5 : h) | 0;
+  return (h === 0 ? zeroKeySubstitute : h) | 0;
 }
 
 /** A reusable xorshift128 stream; `reseed` restarts it on a new key without allocating. */
@@ -86,9 +89,13 @@ export class StreamRng {
     this.reseed(key);
   }
 
-  /** Restarts the stream at `key` (an int32), exactly like seedrandom.xor128(key). */
+  /**
+   * Restarts the stream at `key` (an int32), exactly like seedrandom.xor128(key). Key 0 would
+   * leave xorshift128 in its all-zero fixed point (only zeros, and `uniform` would never
+   * return), so it is remapped like in `streamKey`.
+   */
   reseed(key: number): void {
-    this.x = key | 0;
+    this.x = key | 0 || zeroKeySubstitute;
     this.y = 0;
     this.z = 0;
     this.w = 0;

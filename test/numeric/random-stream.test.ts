@@ -19,6 +19,12 @@ describe('random streams', () => {
     }
   });
 
+  it('never sticks in the all-zero state: key 0 is remapped', () => {
+    const rng = new StreamRng(0);
+    const u = rng.uniform();
+    expect(u > 0 && u < 1).toBe(true);
+  });
+
   it('gives the same stream for the same (seed, id, purpose, key) and another for any change', () => {
     const d = seedHash(42);
     const k = streamKey(d, 17, streamPurpose.source, fnv1a32('g1'));
