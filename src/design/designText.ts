@@ -6,7 +6,7 @@ import type { ComparisonRow } from './comparison.js';
 import type { DriverRow, DriversResult } from './drivers.js';
 import { minDriverEvents, topDrivers } from './drivers.js';
 import { outcomeDefinition } from './outcomes.js';
-import type { SweepKnee } from './sweep.js';
+import type { SweepKnee, SweepStep } from './sweep.js';
 
 /** "4.1 %", "0.052 %", "12 %". */
 export function percentText(x: number): string {
@@ -123,7 +123,13 @@ export interface SweepLine {
 export function sweepText(
   path: string,
   lines: readonly SweepLine[],
-  info: { metrics: readonly string[]; knees: readonly SweepKnee[]; level: number; dir: string },
+  info: {
+    metrics: readonly string[];
+    knees: readonly SweepKnee[];
+    steps: readonly SweepStep[];
+    level: number;
+    dir: string;
+  },
 ): string {
   const label = (m: string) => outcomeDefinition(m)?.label ?? m.replaceAll('_', ' ');
   const out = [`Sweep of ${path} (${levelText(info.level)} intervals, common random numbers):`];
@@ -138,6 +144,20 @@ export function sweepText(
     const mark = at.length > 0 ? `   <- knee of ${at.join(', ')}` : '';
     out.push(`  ${path} = ${l.valueText}: ${parts.join(', ')}${mark}`);
   });
+  if (info.steps.length > 0) {
+    out.push('What each step buys (paired differences on the same scenarios, points):');
+    for (const metric of info.steps[0]!.rows.map((r) => r.metric)) {
+      const parts = info.steps.map((st) => {
+        const r = st.rows.find((x) => x.metric === metric);
+        if (!r) return `${st.fromText} -> ${st.toText} n/a`;
+        const ci = Number.isNaN(r.diffCiLow)
+          ? 'no paired interval'
+          : `${pointsText(r.diffCiLow)} to ${pointsText(r.diffCiHigh)}`;
+        return `${st.fromText} -> ${st.toText} ${pointsText(r.difference)} (${ci})`;
+      });
+      out.push(`  ${label(metric)}: ${parts.join('; ')}`);
+    }
+  }
   for (const k of info.knees) {
     const e = k.endToEnd;
     const change =

@@ -54,6 +54,8 @@ export interface SweepOutcome {
   points: SweepPoint[];
   /** The knee of each headline metric's curve (see sweepKnees). */
   knees: SweepKnee[];
+  /** Paired differences between consecutive values (see sweepSteps). */
+  steps: SweepStep[];
   /** Undefined when a run stopped early (the later values were not run). */
   sweepPath: string | undefined;
   confidenceLevel: number;
@@ -97,12 +99,73 @@ export async function runSweep(
   const names = new Set(points.flatMap((p) => p.rows.map((r) => r.metric)));
   const kneeMetrics = ['p_load_shed', 'p_shutdown', 'p_failure'].filter((m) => names.has(m));
   const knees = complete ? sweepKnees(kneeMetrics, points, cases, runs, level) : [];
+  const steps = complete ? sweepSteps(kneeMetrics, points, cases, runs, level) : [];
   const sweepPath = complete ? writeSweepArrow(opts.outDir, path, points, level) : undefined;
   const shown = ['p_load_shed', 'p_shutdown', 'p_failure_in_year'].filter((m) => names.has(m));
   const text = complete
-    ? sweepText(path, points, { metrics: shown, knees, level, dir: opts.outDir })
+    ? sweepText(path, points, { metrics: shown, knees, steps, level, dir: opts.outDir })
     : `Sweep stopped early at ${path} = ${cases[points.length]?.valueText}; the run folders are marked partial and sweep.arrow was not written.\n`;
-  return { runs, points, knees, sweepPath, confidenceLevel: level, text };
+  return { runs, points, knees, steps, sweepPath, confidenceLevel: level, text };
+}
+
+/** The paired comparison of runs i (base) and j (variant) of a sweep. */
+function pairRuns(
+  i: number,
+  j: number,
+  cases: readonly SweepCase[],
+  runs: readonly RunOutcome[],
+  level: number,
+): ComparisonRow[] {
+  return compareDesigns({
+    base: readScenarioFrame(runs[i]!.paths.scenarios),
+    variant: readScenarioFrame(runs[j]!.paths.scenarios),
+    baseSummary: runs[i]!.summary,
+    variantSummary: runs[j]!.summary,
+    baseFailureDefinition: cases[i]!.loaded.case.monteCarlo.failureDefinition,
+    variantFailureDefinition: cases[j]!.loaded.case.monteCarlo.failureDefinition,
+    baseRatePerYear: cases[i]!.loaded.case.events.islandingRatePerYear,
+    variantRatePerYear: cases[j]!.loaded.case.events.islandingRatePerYear,
+    confidenceLevel: level,
+    identicalDesigns: sameDesign(cases[i]!.loaded, cases[j]!.loaded),
+  }).rows;
+}
+
+/** The order in which the curve is walked: by value for numbers, as given otherwise. */
+function walkOrder(points: readonly SweepPoint[]): number[] {
+  const order = points.map((_, i) => i);
+  if (points.every((p) => p.value !== undefined))
+    order.sort((a, b) => points[a]!.value! - points[b]!.value!);
+  return order;
+}
+
+export interface SweepStep {
+  fromText: string;
+  toText: string;
+  /** Paired differences (to - from) of the headline metrics on the same scenarios. */
+  rows: ComparisonRow[];
+}
+
+/**
+ * What each step of the sweep buys: the paired difference of the headline metrics between
+ * consecutive values (on the same scenarios), at most 20 steps.
+ */
+function sweepSteps(
+  metrics: readonly string[],
+  points: readonly SweepPoint[],
+  cases: readonly SweepCase[],
+  runs: readonly RunOutcome[],
+  level: number,
+): SweepStep[] {
+  const order = walkOrder(points);
+  if (order.length < 2 || order.length > 21) return [];
+  const steps: SweepStep[] = [];
+  for (let k = 1; k < order.length; k++) {
+    const a = order[k - 1]!;
+    const b = order[k]!;
+    const rows = pairRuns(a, b, cases, runs, level).filter((r) => metrics.includes(r.metric));
+    steps.push({ fromText: points[a]!.valueText, toText: points[b]!.valueText, rows });
+  }
+  return steps;
 }
 
 export interface SweepKnee {
@@ -142,18 +205,7 @@ function sweepKnees(
     if (p.value! < points[lo]!.value!) lo = i;
     if (p.value! > points[hi]!.value!) hi = i;
   });
-  const comparison = compareDesigns({
-    base: readScenarioFrame(runs[lo]!.paths.scenarios),
-    variant: readScenarioFrame(runs[hi]!.paths.scenarios),
-    baseSummary: runs[lo]!.summary,
-    variantSummary: runs[hi]!.summary,
-    baseFailureDefinition: cases[lo]!.loaded.case.monteCarlo.failureDefinition,
-    variantFailureDefinition: cases[hi]!.loaded.case.monteCarlo.failureDefinition,
-    baseRatePerYear: cases[lo]!.loaded.case.events.islandingRatePerYear,
-    variantRatePerYear: cases[hi]!.loaded.case.events.islandingRatePerYear,
-    confidenceLevel: level,
-    identicalDesigns: sameDesign(cases[lo]!.loaded, cases[hi]!.loaded),
-  });
+  const comparison = { rows: pairRuns(lo, hi, cases, runs, level) };
   return metrics.map((metric) => {
     const endToEnd = comparison.rows.find((r) => r.metric === metric);
     const trend = endToEnd !== undefined && (endToEnd.diffCiLow > 0 || endToEnd.diffCiHigh < 0);

@@ -81,6 +81,7 @@ export const addSweepCommand: AddCommand = (program: Command, frame) => {
                 trend: k.trend,
                 endToEnd: k.endToEnd ?? null,
               })),
+              steps: outcome.steps,
               confidenceLevel: outcome.confidenceLevel,
             },
             null,
