@@ -167,24 +167,33 @@ export function naiveSimulate(c: Case, op: Scenario, horizonS: number): NaiveOut
       const si = s.syntheticInertia;
       const kva = s.ratingKva ?? s.ratingKw;
       const limit = ((s.rotorInertiaS * kva) / sb) * (1 - s.minRotorSpeedPu ** 2);
-      const mode = { recovering: false };
+      const rotor = { recovering: false, dE: 0, dw: 0 };
+      const cap = (si?.capFraction ?? 0) * rating;
+      const dterm = (dw: number) =>
+        si ? si.droopGainPuPerHz * rating * f0 * Math.max(0, -dw - si.deadbandHz / f0) : 0;
+      const kr = si ? si.rocofGainPuPerHzPerS * rating * f0 : 0;
       return {
         ...base,
         kind: 'wind',
-        state: [0, 0],
-        output: (x, dw) => Math.max(0, fw(dw) + x[0]!),
-        derivative: (x, dw, rocof) => {
-          if (x[1]! >= limit) mode.recovering = true;
-          const cap = (si?.capFraction ?? 0) * rating;
-          let cmd = 0;
-          if (mode.recovering) cmd = -Math.min(x[1]! / (s.recoveryTimeS / 3), cap);
-          else if (si)
-            cmd = Math.min(
-              cap,
-              si.rocofGainPuPerHzPerS * rating * f0 * Math.max(0, -rocof) +
-                si.droopGainPuPerHz * rating * f0 * Math.max(0, -dw - si.deadbandHz / f0),
-            );
-          return [(cmd - x[0]!) / 0.05, x[0]!];
+        state: [0],
+        get kinetic() {
+          return rotor.recovering ? 0 : kr / 2;
+        },
+        gfOutput: (dw, rocof) => {
+          rotor.dw = dw;
+          if (rotor.recovering)
+            return Math.max(0, fw(dw) - Math.min(rotor.dE / (s.recoveryTimeS / 3), cap));
+          return fw(dw) + dterm(dw) - kr * rocof;
+        },
+        limits: (): [number, number] =>
+          rotor.recovering
+            ? [0, Infinity]
+            : [fw(rotor.dw) + Math.min(dterm(rotor.dw), cap), fw(rotor.dw) + cap],
+        output: () => 0,
+        derivative: (x, dw, _r, p) => {
+          rotor.dE = x[0]!;
+          if (x[0]! >= limit) rotor.recovering = true;
+          return [p - fw(dw)];
         },
       };
     }
@@ -201,6 +210,14 @@ export function naiveSimulate(c: Case, op: Scenario, horizonS: number): NaiveOut
         ),
       ],
     };
+  });
+  // Momentary cessation: offline at zero output until it ends, then back (like a late start).
+  const returnAt = c.sources.map((_, i) => {
+    const src = sources[i]!;
+    if (!src.online || op.cessationS[i]! <= 0) return Infinity;
+    src.online = false;
+    if (src.kind !== 'genset' && src.kind !== 'wind' && !src.gfOutput) src.state[0] = 0;
+    return op.cessationS[i]!;
   });
   const standby = c.sources.map((s, i) =>
     s.kind === 'genset' &&
@@ -296,6 +313,10 @@ export function naiveSimulate(c: Case, op: Scenario, horizonS: number): NaiveOut
       } else st.since = -1;
     }
     sources.forEach((s, i) => {
+      if (now >= returnAt[i]!) {
+        returnAt[i] = Infinity;
+        s.online = true;
+      }
       if (now >= standby[i]!) {
         standby[i] = Infinity;
         s.online = true;
