@@ -1,4 +1,5 @@
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { describe, expect, it } from 'vitest';
@@ -47,6 +48,27 @@ describe('the cases in cases/', () => {
       expect((YAML.parse(text) as { invented?: unknown }).invented).toBe(true);
     },
   );
+});
+
+describe('JSON case files', () => {
+  it('check the same as their YAML source, by extension and by content', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'holdfast-json-'));
+    try {
+      const raw = YAML.parse(readFileSync('cases/kestrel-island.yaml', 'utf8')) as unknown;
+      writeFileSync(join(dir, 'kestrel.json'), JSON.stringify(raw, null, 2));
+      writeFileSync(join(dir, 'kestrel.case'), JSON.stringify(raw));
+      const yamlIo = memoryIo();
+      await runCli(['check', 'cases/kestrel-island.yaml'], yamlIo);
+      for (const name of ['kestrel.json', 'kestrel.case']) {
+        const io = memoryIo(dir);
+        expect(await runCli(['check', name], io)).toBe(0);
+        // same summary apart from the file name in the first line
+        expect(io.out.split('\n').slice(1)).toEqual(yamlIo.out.split('\n').slice(1));
+      }
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
 });
 
 describe('the JSON Schema checked by a second, independent validator (ajv, draft 2020-12)', () => {
