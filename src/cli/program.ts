@@ -29,7 +29,7 @@ export function buildProgram(
         'decided under local codes by licensed engineers.',
     )
     .version(toolVersion(), '-V, --version')
-    .showHelpAfterError('(add --help for usage)')
+    .showHelpAfterError('holdfast: add --help for usage')
     .configureOutput({
       writeOut: (text) => io.stdout(text),
       writeErr: (text) => io.stderr(text),
@@ -41,7 +41,7 @@ export function buildProgram(
   for (const cmd of program.commands) {
     cmd.exitOverride();
     cmd.configureOutput(program.configureOutput());
-    cmd.showHelpAfterError('(add --help for usage)');
+    cmd.showHelpAfterError('holdfast: add --help for usage');
   }
   return program;
 }

@@ -17,6 +17,14 @@ describe('runCli', () => {
     expect(io.err).not.toMatch(/\n\s+at /);
   });
 
+  it('exits 2 on a missing or extra argument, every stderr line starting with holdfast:', async () => {
+    for (const argv of [['check'], ['check', 'a.yaml', 'b.yaml']]) {
+      const io = memoryIo();
+      expect(await runCli(argv, io)).toBe(2);
+      for (const line of io.err.trimEnd().split('\n')) expect(line).toMatch(/^holdfast: /);
+    }
+  });
+
   it('exits 2 on an unknown option', async () => {
     const io = memoryIo();
     expect(await runCli(['schema', '--nope'], io)).toBe(2);
