@@ -9,6 +9,7 @@
  * A bound exactly equal to VALUE passes (strict inequality, as written).
  */
 import { CaseError, describeFound } from '../errors.js';
+import { knownSummaryMetrics } from './outcomes.js';
 
 export type GateDirection = '>' | '<';
 
@@ -88,21 +89,31 @@ export function checkGateMetrics(gates: readonly RiskGate[], metrics: readonly s
 }
 
 /**
- * Judges each gate against the summary rows. Throws CaseError for a gate naming a metric not in
- * the rows. A NaN bound (no scenarios) counts as exceeded: an unmeasured risk does not pass.
+ * Judges each gate against the summary rows. A gate naming a metric that is neither in the rows
+ * nor among the metrics a summary can report (`known`, default every summary metric) is a
+ * CaseError naming them (exit 2). A known metric this run did not report (its model is not part
+ * of the build, say) and a NaN bound (no scenarios) count as exceeded: an unmeasured risk does
+ * not pass.
  */
 export function evaluateRiskGates(
   rows: readonly GateRow[],
   gates: readonly RiskGate[],
+  known: readonly string[] = knownSummaryMetrics,
 ): GateVerdict[] {
-  checkGateMetrics(
-    gates,
-    rows.map((r) => r.metric),
-  );
+  const names = rows.map((r) => r.metric);
+  checkGateMetrics(gates, [...names, ...known.filter((m) => !names.includes(m))]);
   const byMetric = new Map(rows.map((r) => [r.metric, r]));
   return gates.map((g) => {
     const gate: Required<RiskGate> = { direction: '>', ...g };
-    const row = byMetric.get(gate.metric)!;
+    const row = byMetric.get(gate.metric);
+    if (!row)
+      return {
+        gate,
+        bound: Number.NaN,
+        estimate: Number.NaN,
+        exceeded: true,
+        text: `${gate.metric}: not reported by this run (its inputs are not in the scenario table): EXCEEDED`,
+      };
     const upper = gate.direction === '>';
     const bound = upper ? row.ciHigh : row.ciLow;
     const exceeded =

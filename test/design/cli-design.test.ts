@@ -232,7 +232,9 @@ describe('holdfast sweep', () => {
     expect(code).toBe(0);
     expect(io.out).toContain('Sweep of sources.bess.ratingKw');
     expect(io.out).toMatch(/knee/i);
-    expect(io.out).toMatch(/What each step buys[^\n]*\n {2}load-shedding probability: 500 -> 1000 \S+ \(/);
+    expect(io.out).toMatch(
+      /What each step buys[^\n]*\n {2}load-shedding probability: 500 -> 1000 \S+ \(/,
+    );
     const df = pl.readIPC(readFileSync(join(out, 'sweep.arrow')));
     expect(df.height).toBe(3);
     expect(df.getColumn('value').toArray()).toEqual([500, 1000, 1500]);

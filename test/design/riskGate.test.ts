@@ -67,8 +67,15 @@ describe('evaluateRiskGates', () => {
       expect(e).toBeInstanceOf(CaseError);
       const msg = (e as CaseError).problems[0]?.message ?? '';
       expect(msg).toContain('p_blackout');
-      expect(msg).toContain('p_shutdown, p_load_shed');
+      expect(msg).toContain('p_shutdown, p_load_shed, ');
+      expect(msg).toContain('p_failure_in_year');
     }
+  });
+
+  it('treats a known metric this run did not report as exceeded', () => {
+    const v = evaluateRiskGates(rows, [{ metric: 'p_voltage_violation', threshold: 0.5 }]);
+    expect(v[0]?.exceeded).toBe(true);
+    expect(v[0]?.text).toContain('not reported');
   });
 
   it('treats an unmeasured (NaN) bound as exceeded', () => {
