@@ -20,6 +20,8 @@ function num(x: number): string {
 const sentences: Record<string, (r: SummaryRow, level: string) => string> = {
   p_shutdown: (r, l) =>
     `The island shuts down in ${pct(r.estimate)} of separations (${l} interval ${pct(r.ciLow)} to ${pct(r.ciHigh)}).`,
+  p_failure: (r, l) =>
+    `A separation ends in failure in ${pct(r.estimate)} of cases (${l} interval ${pct(r.ciLow)} to ${pct(r.ciHigh)}).`,
   p_load_shed: (r, l) =>
     `Load is shed in ${pct(r.estimate)} of separations (${l} interval ${pct(r.ciLow)} to ${pct(r.ciHigh)}).`,
   p_failure_in_year: (r, l) =>
@@ -33,12 +35,22 @@ const sentences: Record<string, (r: SummaryRow, level: string) => string> = {
 /** The plain-words report printed at the end of `holdfast run`. */
 export function headlineText(
   rows: readonly SummaryRow[],
-  info: { scenarios: number; confidenceLevel: number; status: string; dir: string },
+  info: {
+    scenarios: number;
+    confidenceLevel: number;
+    status: string;
+    dir: string;
+    failureDefinition?: string;
+  },
 ): string {
   const level = `${Math.round(info.confidenceLevel * 1000) / 10} %`;
   const lines = [
     `${info.scenarios.toLocaleString('en-US')} scenarios (${info.status}), results in ${info.dir}`,
   ];
+  if (info.failureDefinition)
+    lines.push(
+      `Failure means: ${info.failureDefinition === 'shutdown-only' ? 'the island shuts down' : 'the island shuts down or critical load goes unserved'}.`,
+    );
   const byMetric = new Map(rows.map((r) => [r.metric, r]));
   for (const [metric, say] of Object.entries(sentences)) {
     const r = byMetric.get(metric);

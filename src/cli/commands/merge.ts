@@ -35,6 +35,7 @@ export const addMergeCommand: AddCommand = (program: Command, frame) => {
           headlineText(merged.summary, {
             scenarios: merged.manifest.scenarioCount,
             confidenceLevel: merged.manifest.confidenceLevel,
+            failureDefinition: merged.manifest.failureDefinition,
             status: merged.status,
             dir: outDir,
           }),

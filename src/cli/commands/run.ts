@@ -86,6 +86,7 @@ export const addRunCommand: AddCommand = (program: Command, frame) => {
           headlineText(outcome.summary, {
             scenarios: outcome.manifest.scenarioCount,
             confidenceLevel: outcome.manifest.confidenceLevel,
+            failureDefinition: outcome.manifest.failureDefinition,
             status: outcome.status,
             dir: outDir,
           }),
