@@ -15,6 +15,7 @@ import type { LoadedCase } from '../case/load.js';
 import type { Case } from '../case/schema.js';
 import { CaseError, type CaseProblem, RunError } from '../errors.js';
 import { readManifest } from '../results/manifest.js';
+import { copyArrowToParquet } from '../results/parquet.js';
 import type { ShardSpec } from '../run/plan.js';
 import { type RunOutcome, runAssessment } from '../run/run.js';
 import { type ComparisonResult, compareDesigns, type SummaryLike } from './comparison.js';
@@ -112,6 +113,15 @@ export async function runComparison(
     base: analyseRunDrivers(baseFrame, join(opts.outDir, 'base'), level),
     variant: analyseRunDrivers(variantFrame, join(opts.outDir, 'variant'), level),
   };
+  if (opts.parquet) {
+    await copyArrowToParquet(comparisonPath, join(opts.outDir, 'comparison.parquet'));
+    for (const [d, result] of Object.entries(drivers))
+      if (result)
+        await copyArrowToParquet(
+          join(opts.outDir, d, 'drivers.arrow'),
+          join(opts.outDir, d, 'drivers.parquet'),
+        );
+  }
   const text = comparisonText(comparison.rows, {
     nPairs: comparison.nPairs,
     level,

@@ -11,6 +11,7 @@
  */
 import { join } from 'node:path';
 import { type LoadedCase, loadCase } from '../case/load.js';
+import { copyArrowToParquet } from '../results/parquet.js';
 import type { ShardSpec } from '../run/plan.js';
 import { type RunOutcome, runAssessment } from '../run/run.js';
 import { sameDesign } from './compare.js';
@@ -101,6 +102,8 @@ export async function runSweep(
   const knees = complete ? sweepKnees(kneeMetrics, points, cases, runs, level) : [];
   const steps = complete ? sweepSteps(kneeMetrics, points, cases, runs, level) : [];
   const sweepPath = complete ? writeSweepArrow(opts.outDir, path, points, level) : undefined;
+  if (sweepPath && opts.parquet)
+    await copyArrowToParquet(sweepPath, join(opts.outDir, 'sweep.parquet'));
   const shown = ['p_load_shed', 'p_shutdown', 'p_failure_in_year'].filter((m) => names.has(m));
   const text = complete
     ? sweepText(path, points, { metrics: shown, knees, steps, level, dir: opts.outDir })
