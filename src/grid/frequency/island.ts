@@ -111,6 +111,8 @@ export class Island {
   readonly algHi: Float64Array;
   /** 1 while unit i is algebraic in the RoCoF in the current evaluation; 2 once clamped. */
   readonly algState: Uint8Array;
+  /** 1 if the unit's power-loop lag is treated as instantaneous in this event (EventOptions.quasiSteadyLagS). */
+  readonly quasiSteady: Uint8Array;
   readonly loadServedPu: Float64Array;
   readonly loadKwAtEvent: Float64Array;
   readonly monActive: Uint8Array;
@@ -184,6 +186,7 @@ export class Island {
     this.algLo = f64();
     this.algHi = f64();
     this.algState = u8();
+    this.quasiSteady = u8();
 
     const sb = this.baseKw;
     const f0 = this.f0Hz;

@@ -33,6 +33,12 @@ export interface EventOptions {
   relTol?: number;
   absTol?: number;
   maxStepS?: number;
+  /**
+   * Grid-following battery power loops with a time constant at or below this are treated as
+   * instantaneous (quasi-steady state), s. Default 0: every lag is kept as a state. Such lags
+   * are the stiffest modes and set the cost of an explicit method (docs/frequency-engine.md).
+   */
+  quasiSteadyLagS?: number;
 }
 
 export interface TraceSink {
@@ -119,7 +125,7 @@ function hasFormingSource(isl: Island): boolean {
 }
 
 /** Sets up the work arrays and the state at t = 0+ from the operating point. */
-function initialise(e: Engine, op: Scenario, out: EventResult): void {
+function initialise(e: Engine, op: Scenario, out: EventResult, quasiSteadyLagS: number): void {
   const isl = e.isl;
   const sb = isl.baseKw;
   const x = e.x;
@@ -152,6 +158,12 @@ function initialise(e: Engine, op: Scenario, out: EventResult): void {
     isl.socFull[i] = 0;
     isl.rotorRecovering[i] = 0;
     isl.algState[i] = 0;
+    isl.quasiSteady[i] =
+      isl.kind[i] === SourceKind.battery &&
+      isl.gridForming[i] === 0 &&
+      isl.lagTimeS[i]! <= quasiSteadyLagS
+        ? 1
+        : 0;
     const kind = isl.kind[i];
     if (kind === SourceKind.battery) {
       const soc = op.socFraction[i]!;
@@ -159,6 +171,7 @@ function initialise(e: Engine, op: Scenario, out: EventResult): void {
       if (soc <= isl.socMinFraction[i]!) isl.socEmpty[i] = 1;
       if (soc >= isl.socMaxFraction[i]!) isl.socFull[i] = 1;
       if (isl.gridForming[i] === 0) x[o] = ceased ? 0 : isl.dispatchPu[i]!;
+      // (a quasi-steady grid-following unit ignores x[o]: its output is algebraic)
     } else if (kind !== SourceKind.wind) x[o] = ceased ? 0 : isl.dispatchPu[i]!;
     if (online && !ceased) onlineKw += op.dispatchKw[i]!;
   }
@@ -379,7 +392,7 @@ export function simulateEvent(
   integ.steps = 0;
   integ.rejected = 0;
   integ.evaluations = 0;
-  initialise(e, op, out);
+  initialise(e, op, out, opts.quasiSteadyLagS ?? 0);
   const x = e.x;
   let t = 0;
   const tracker = e.tracker;

@@ -62,6 +62,25 @@ export class IslandEquations implements OdeSystem {
             algList[algCount++] = i;
             continue;
           }
+          if (isl.quasiSteady[i] === 1) {
+            // Grid-following with its lag taken as instantaneous: droop now, virtual inertia
+            // algebraic in the RoCoF (k = H_v S / S_b), inside the power and SoC limits.
+            const lo = batteryLowLimitPu(isl, i);
+            const hi = batteryHighLimitPu(isl, i);
+            const c = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dw;
+            const k = 0.5 * isl.virtualInertiaGainPuS[i]!;
+            if (k > 0) {
+              isl.algC[i] = c;
+              isl.algK[i] = k;
+              isl.algLo[i] = lo;
+              isl.algHi[i] = hi;
+              isl.algState[i] = 1;
+              algList[algCount++] = i;
+              continue;
+            }
+            p = c > hi ? hi : Math.max(c, lo);
+            break;
+          }
           p = x[stateOffset(i)]!;
           break;
         case SourceKind.wind:
@@ -132,7 +151,7 @@ export class IslandEquations implements OdeSystem {
           gensetDerivatives(isl, i, x, dx, dw, out[i]!);
           break;
         case SourceKind.battery:
-          if (isl.gridForming[i] === 1) {
+          if (isl.gridForming[i] === 1 || isl.quasiSteady[i] === 1) {
             dx[o] = 0;
             batteryEnergyDerivatives(isl, i, dx, out[i]!);
           } else batteryFollowingDerivatives(isl, i, x, dx, dw, rocof);
