@@ -60,7 +60,7 @@ export interface RunOptions {
   resume?: boolean;
   /** Stop once the headline interval half-width is below this fraction of its estimate. */
   untilRelError?: number;
-  /** First checkpoint of untilRelError (default 10 batches' worth, at least 1000). */
+  /** First checkpoint of untilRelError (default 1000, rounded up to whole feed blocks). */
   firstCheckpoint?: number;
   /** Scenarios per task; rounded to a multiple of the feed block (100). */
   batchSize?: number;
@@ -147,10 +147,10 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
 
   const sink = createSummary(summarySettings(c));
   const encoder = new BatchEncoder(specs);
-  const plannedChecks =
+  let plannedChecks =
     opts.untilRelError === undefined
       ? [end]
-      : checkpoints(opts.firstCheckpoint ?? Math.max(1000, 10 * batchSize), end, block);
+      : checkpoints(opts.firstCheckpoint ?? 1000, end, block);
 
   // --resume: check the earlier manifest, then copy its rows (and summary updates) first
   let done = 0;
@@ -166,11 +166,15 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     if (earlier.idStart !== start || earlier.idEnd !== end)
       mismatch.push('scenario range or shard');
     if (earlier.columnGroups.join() !== groups.join()) mismatch.push('model set of this build');
+    if ((earlier.untilRelError?.target ?? null) !== (opts.untilRelError ?? null))
+      mismatch.push('--until-rel-error');
     if (mismatch.length > 0)
       throw CaseError.single(
         '--resume',
         `the earlier run in ${dir} differs in: ${mismatch.join(', ')}`,
       );
+    // the looks of the stopping rule are those planned by the earlier run
+    if (earlier.untilRelError) plannedChecks = earlier.untilRelError.checkpoints;
   }
 
   // compile once here too: a case the models reject is bad input (exit 2) before anything is

@@ -72,5 +72,21 @@ describe('runAssessment with untilRelError', () => {
       batchSize: 300,
     });
     expect(fixed.summary).toEqual(seq.summary);
+
+    // interrupted after the first batch, resumed with another worker count: the same looks,
+    // the same stopping count, the same summary
+    const d = join(dir, 'seq-resumed');
+    const common = { scenarios: cap, untilRelError: target, firstCheckpoint: 200, batchSize: 100 };
+    const cut = await runAssessment(input, {
+      ...common,
+      outDir: d,
+      workers: 1,
+      stopAfterBatches: 1,
+    });
+    expect(cut.status).toBe('partial');
+    const resumed = await runAssessment(input, { ...common, outDir: d, workers: 2, resume: true });
+    expect(resumed.manifest.scenarioCount).toBe(stoppedAt);
+    expect(resumed.manifest.untilRelError!.checks).toBe(rule.checks);
+    expect(resumed.summary).toEqual(seq.summary);
   });
 });
