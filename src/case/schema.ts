@@ -215,9 +215,9 @@ export const gensetSchema = z.strictObject({
     .describe('integral (secondary) gain, pu power per pu frequency per s; 0 = pure droop'),
   swingDampingPu: nonNegative()
     .max(200)
-    .default(2)
+    .default(20)
     .describe(
-      'electrical damping of the rotor swing against other sources (damper windings), pu power per pu speed on the kVA rating; used by the small-signal check. 2 is a low classical-model value (from memory); Saadat Example 11.2 implies about 52 (REFERENCES 1.3d)',
+      'electrical damping of the rotor swing against other sources (damper windings), pu power per pu speed on the kVA rating; used by the small-signal check. 20 is a moderate damper-winding value (from memory): 2 is a low classical-model value that flags nearly every genset as poorly damped, while Saadat Example 11.2 implies about 52 for a large machine (REFERENCES 1.3d). Confirm for the machine.',
     ),
   rampKwPerS: positive().optional().describe('upward ramp limit; unlimited if omitted'),
   minLoadingFraction: fraction()
