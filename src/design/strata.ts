@@ -101,23 +101,25 @@ export function niceStep(range: number, parts: number): number {
 }
 
 /**
- * Deficit bands: a surplus (deficit <= 0) stratum, then bands of a nice width cutting the
- * largest deficit into about five (e.g. 0-200, 200-400, ... kW).
+ * Deficit bands: a surplus-or-balanced stratum (deficit below 1 W), then bands of a nice width
+ * cutting the largest deficit into about five (e.g. 0-200, 200-400, ... kW).
  */
 export function deficitPartition(frame: ScenarioFrame): Partition | undefined {
   const deficit = frame.numeric('deficit_kw');
   if (!deficit) return undefined;
   let max = 0;
   for (let i = 0; i < frame.n; i++) if (deficit[i]! > max) max = deficit[i]!;
-  const step = max > 0 ? niceStep(max, 5) : 1;
-  const bands = max > 0 ? Math.ceil(max / step) : 0;
-  const strata = ['surplus or balanced (deficit <= 0 kW)'];
+  // deficits below a watt are "balanced" for this purpose (and keep the step arithmetic finite)
+  const step = max >= 1e-3 ? niceStep(max, 5) : 1;
+  const bands = max >= 1e-3 ? Math.ceil(max / step) : 0;
+  const strata = ['surplus or balanced (deficit below 1 W)'];
   for (let k = 0; k < bands; k++) strata.push(`deficit ${k * step}-${(k + 1) * step} kW`);
   const codes = new Int32Array(frame.n);
   for (let i = 0; i < frame.n; i++) {
     const d = deficit[i]!;
     // a deficit exactly on a band edge belongs to the lower band: (k*step, (k+1)*step]
-    codes[i] = d <= 0 ? 0 : 1 + Math.min(bands - 1, Math.ceil(d / step) - 1);
+    codes[i] =
+      d < 1e-3 || bands === 0 ? 0 : 1 + Math.min(bands - 1, Math.max(0, Math.ceil(d / step) - 1));
   }
   return { driver: 'deficit_band', label: 'deficit at separation', strata, codes };
 }
