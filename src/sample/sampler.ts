@@ -21,7 +21,7 @@ import {
   streamPurpose,
 } from '../numeric/random-stream.js';
 import { CompiledDistribution } from '../stats/distributions.js';
-import { normalQuantile } from '../stats/distributions-special.js';
+import { normalQuantile } from '../stats/normal.js';
 import { hoursPerYear } from './calendar.js';
 import { type CsvCache, readCsvProfile } from './csv-profile.js';
 import { batteryDispatchKw } from './dispatch.js';

@@ -87,9 +87,16 @@ function checkShape(name: string, a: number, b: number): void {
 export function incompleteBetaRegularized(x: number, a: number, b: number): number {
   checkShape('incompleteBetaRegularized', a, b);
   if (Number.isNaN(x)) throw new RangeError('incompleteBetaRegularized: x is NaN');
+  return incompleteBetaWithLogBeta(x, a, b, logBeta(a, b));
+}
+
+/**
+ * I_x(a, b) given lnB = ln B(a, b), for callers that evaluate one distribution many times (the
+ * sampler's beta quantiles); no argument checks: callers validated a and b once.
+ */
+export function incompleteBetaWithLogBeta(x: number, a: number, b: number, lnB: number): number {
   if (x <= 0) return 0;
   if (x >= 1) return 1;
-  const lnB = logBeta(a, b);
   const front = Math.exp(logFront(x, a, b, lnB));
   if (x < (a + 1) / (a + b + 2)) return (front * betaFraction(x, a, b)) / a;
   return 1 - (front * betaFraction(1 - x, b, a)) / b;

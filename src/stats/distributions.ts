@@ -21,12 +21,11 @@
  */
 import type { Distribution } from '../case/schema.js';
 import {
-  betaIncRegularized,
-  betaIncWithLnBeta,
-  lnGamma,
-  normalCdf,
-  normalQuantile,
-} from './distributions-special.js';
+  incompleteBetaRegularized as betaIncRegularized,
+  incompleteBetaWithLogBeta as betaIncWithLnBeta,
+} from './beta.js';
+import { logGamma as lnGamma } from './log-gamma.js';
+import { normalCdf, normalQuantile } from './normal.js';
 
 /** Anything that yields uniforms in (0, 1). */
 export interface UniformSource {
