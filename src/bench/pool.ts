@@ -6,8 +6,9 @@
  *   writes, summary, files) with all cores and with one worker;
  * - parallel_efficiency: all-workers rate over the one-worker rate of the same run (2 cores:
  *   ideal 2);
- * - pool_overhead_fraction: 1 - one-worker rate / in-thread rate (what the pool, transfer,
- *   Arrow writer and summary add per scenario);
+ * - pool_overhead_fraction: 1 - one-worker marginal rate / in-thread rate: what the pool,
+ *   transfer, Arrow writer and summary add per scenario, the marginal rate being taken between a
+ *   run of n/4 and one of n (so the fixed start-up, reported as pool_startup_s, drops out);
  * - peakRssMb(n): peak memory of an n-scenario run in a child process (`peak_rss_mb_1e6` with
  *   n = 1e6; it takes n / full_scenarios_per_s_all_workers seconds);
  * - writerPeakRssMb(n): the same for the writer and summary alone on synthetic rows.
@@ -33,34 +34,43 @@ function seconds(t0: bigint): number {
 export async function benchPool(
   opts: { threadScenarios?: number; poolScenarios?: number } = {},
 ): Promise<Record<string, number>> {
-  const threadN = opts.threadScenarios ?? 1000;
-  const poolN = opts.poolScenarios ?? 4000;
+  const threadN = opts.threadScenarios ?? 4000;
+  const poolN = opts.poolScenarios ?? 16000;
   const loaded = await loadCase(demoCasePath);
   const c = loaded.case;
 
-  // in-thread kernel: warm up on other ids (JIT), then time
+  // in-thread kernel: warm up on other ids (JIT), then time ids [0, threadN)
   const kernel = compileKernel(c, loaded.dir, { seed: c.monteCarlo.seed });
-  kernel.runBatch(10_000_000, 100);
-  let t0 = process.hrtime.bigint();
+  kernel.runBatch(10_000_000, 200);
+  const t0 = process.hrtime.bigint();
   for (let id = 0; id < threadN; id += 100) kernel.runBatch(id, Math.min(100, threadN - id));
   const threadRate = threadN / seconds(t0);
 
   const dir = mkdtempSync(join(tmpdir(), 'holdfast-bench-'));
+  const timeRun = async (n: number, workers: number, name: string): Promise<number> => {
+    const t = process.hrtime.bigint();
+    await runAssessment(loaded, { outDir: join(dir, name), scenarios: n, workers });
+    return seconds(t);
+  };
   try {
     const workers = availableParallelism();
-    t0 = process.hrtime.bigint();
-    await runAssessment(loaded, { outDir: join(dir, 'one'), scenarios: poolN, workers: 1 });
-    const oneRate = poolN / seconds(t0);
-    t0 = process.hrtime.bigint();
-    await runAssessment(loaded, { outDir: join(dir, 'all'), scenarios: poolN, workers });
-    const allRate = poolN / seconds(t0);
+    // one worker at two sizes: the difference is the per-scenario cost without the start-up
+    // (worker start, case compilation, JIT warm-up), which a long study amortises
+    const small = Math.max(100, Math.round(poolN / 4 / 100) * 100);
+    const tSmall = await timeRun(small, 1, 'one-small');
+    const tOne = await timeRun(poolN, 1, 'one');
+    const tAll = await timeRun(poolN, workers, 'all');
+    const marginalOne = (poolN - small) / (tOne - tSmall);
+    const startupS = tSmall - small / marginalOne;
     return {
       workers,
       full_scenarios_per_s_thread: threadRate,
-      full_scenarios_per_s_one_worker: oneRate,
-      full_scenarios_per_s_all_workers: allRate,
-      parallel_efficiency: allRate / oneRate,
-      pool_overhead_fraction: 1 - oneRate / threadRate,
+      full_scenarios_per_s_one_worker: poolN / tOne,
+      full_scenarios_per_s_one_worker_marginal: marginalOne,
+      full_scenarios_per_s_all_workers: poolN / tAll,
+      parallel_efficiency: tOne / tAll,
+      pool_overhead_fraction: 1 - marginalOne / threadRate,
+      pool_startup_s: startupS,
     };
   } finally {
     rmSync(dir, { recursive: true, force: true });

@@ -38,7 +38,13 @@ export const addRunCommand: AddCommand = (program: Command, frame) => {
         options.failIf,
         summaryMetricNames(summarySettings(loaded.case), columnsOf(kernelGroups())),
       );
-      const outDir = options.out ? resolve(io.cwd, options.out) : defaultOutDir(casePath!, io.cwd);
+      // shards default to their own folders under the case's, ready for `holdfast merge`
+      const shardDir = options.shard
+        ? `shard-${options.shard.index}-of-${options.shard.count}`
+        : '';
+      const outDir = options.out
+        ? resolve(io.cwd, options.out)
+        : resolve(defaultOutDir(casePath!, io.cwd), shardDir);
       const showBar = !options.quiet && !options.json && process.stderr.isTTY === true;
       const bar = showBar
         ? new SingleBar({
