@@ -85,7 +85,7 @@ export class IslandEquations implements OdeSystem {
           break;
         case SourceKind.wind:
           p = windOutputPu(isl, i, x, dw);
-          if (p !== p) {
+          if (Number.isNaN(p)) {
             isl.algState[i] = 1;
             algList[algCount++] = i;
             continue;
