@@ -5,7 +5,7 @@
  * solution y1 = y0 + h sum(b_i k_i) and an embedded fourth-order one whose difference gives the
  * local error estimate err = h sum(e_i k_i). The step is accepted when the scaled RMS norm
  *   ||err|| = sqrt(mean((err_i / (absTol + relTol max(|y0_i|, |y1_i|)))^2)) <= 1
- * and the next step is h * clamp(0.9 ||err||^(-1/5), 0.2, 5) (elementary controller).
+ * and the next step is h * clamp(0.9 ||err||^(-alpha) ||err_old||^beta, 0.2, 5) (PI controller).
  * Dense output is the fourth-order continuous extension
  *   y(t0 + theta h) = r1 + theta (r2 + (1 - theta) (r3 + theta (r4 + (1 - theta) r5)))
  * with r1 = y0, r2 = y1 - y0, r3 = h k1 - r2, r4 = r2 - h k7 - r3, r5 = h sum(d_i k_i).
@@ -82,6 +82,10 @@ export const dormandPrinceTableau = {
   d: [D1, 0, D3, D4, D5, D6, D7],
 } as const;
 
+/** PI step-size controller exponents; beta = 0.04 for DOPRI5 (from memory). */
+const PI_BETA = 0.04;
+const PI_ALPHA = 0.2 - 0.75 * PI_BETA;
+
 export interface StepControl {
   relTol: number;
   absTol: number;
@@ -121,6 +125,8 @@ export class DormandPrince {
   private readonly r4: Float64Array;
   private readonly r5: Float64Array;
   private denseReady = false;
+  /** Error norm of the last accepted step (PI controller memory), floored at 1e-4. */
+  private errOld = 1e-4;
 
   constructor(n: number) {
     this.n = n;
@@ -151,6 +157,7 @@ export class DormandPrince {
     sys.derivatives(tS, this.y1, this.k7);
     this.evaluations++;
     if (firstStepS > 0) this.nextHS = firstStepS;
+    this.errOld = 1e-4;
     this.denseReady = false;
   }
 
@@ -220,8 +227,12 @@ export class DormandPrince {
         return 'accepted';
       }
       if (finite && err <= 1) {
-        // Elementary controller, HNW I sec. II.4: safety 0.9, growth limited to [0.2, 5].
-        const fac = err === 0 ? 5 : Math.min(5, Math.max(0.2, 0.9 * err ** -0.2));
+        // PI controller (Gustafsson, Lundh & Soderlind, BIT 28:270-287, 1988): alpha = 1/5 -
+        // 0.75 beta, safety 0.9, growth limited to [0.2, 5]; fewer rejected steps than the
+        // elementary controller when the error estimate oscillates.
+        const e = err < 1e-10 ? 1e-10 : err;
+        const fac = Math.min(5, Math.max(0.2, 0.9 * e ** -PI_ALPHA * this.errOld ** PI_BETA));
+        this.errOld = e < 1e-4 ? 1e-4 : e;
         this.accept(h, h * fac);
         return 'accepted';
       }
