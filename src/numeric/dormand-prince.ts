@@ -230,9 +230,9 @@ export class DormandPrince {
         // PI controller (Gustafsson, Lundh & Soderlind, BIT 28:270-287, 1988): alpha = 1/5 -
         // 0.75 beta, safety 0.9, growth limited to [0.2, 5]; fewer rejected steps than the
         // elementary controller when the error estimate oscillates.
-        const e = err < 1e-10 ? 1e-10 : err;
+        const e = Math.max(err, 1e-10);
         const fac = Math.min(5, Math.max(0.2, 0.9 * e ** -PI_ALPHA * this.errOld ** PI_BETA));
-        this.errOld = e < 1e-4 ? 1e-4 : e;
+        this.errOld = Math.max(e, 1e-4);
         this.accept(h, h * fac);
         return 'accepted';
       }
