@@ -3,7 +3,9 @@ import { basename, extname, resolve } from 'node:path';
 import { SingleBar } from 'cli-progress';
 import type { Command } from 'commander';
 import { loadCase } from '../../case/load.js';
+import { driversText } from '../../design/designText.js';
 import { anyGateExceeded, checkGateMetrics, evaluateRiskGates } from '../../design/riskGate.js';
+import { writeRunDrivers } from '../../design/runDrivers.js';
 import { columnsOf } from '../../results/columns.js';
 import { headlineText } from '../../run/headline.js';
 import { kernelGroups } from '../../run/kernel.js';
@@ -83,6 +85,11 @@ export const addRunCommand: AddCommand = (program: Command, frame) => {
         process.removeListener('SIGINT', stop);
         process.removeListener('SIGTERM', stop);
       }
+      // what drives the risk: drivers.arrow beside the summary, once the run is complete
+      const drivers =
+        outcome.status === 'complete'
+          ? writeRunDrivers(outDir, outcome.manifest.confidenceLevel)
+          : undefined;
       if (options.json)
         io.stdout(
           `${JSON.stringify({ manifest: outcome.manifest, summary: outcome.summary }, null, 2)}\n`,
@@ -97,6 +104,7 @@ export const addRunCommand: AddCommand = (program: Command, frame) => {
             dir: outDir,
           }),
         );
+      if (drivers && !options.quiet && !options.json) io.stdout(driversText(drivers, 3));
       if (outcome.status === 'partial' && outcome.stopReason === 'interrupted')
         throw new InterruptedError();
       if (options.failIf.length > 0) {
