@@ -60,6 +60,8 @@ export const DEFAULT_ABS_TOL = 1e-6;
 export const DEFAULT_MAX_STEP_S = 2;
 /** Smallest step before the run is declared failed, s. */
 const MIN_STEP_S = 1e-10;
+/** Accepted steps after which a run is declared failed (a chattering or runaway model). */
+const MAX_STEPS = 200_000;
 /** Time tolerance of located crossings, s. */
 const CROSSING_TOL_S = 1e-9;
 
@@ -414,6 +416,11 @@ export function simulateEvent(
     const tStop = Math.min(horizonS, nextTimerS(isl));
     const maxH = tStop - t;
     if (maxH > CROSSING_TOL_S) {
+      if (integ.steps >= MAX_STEPS) {
+        out.status = 'failed';
+        out.message = `integration failed at t = ${t.toFixed(6)} s: more than ${MAX_STEPS} steps`;
+        break;
+      }
       if (integ.step(e.eq, maxH, ctl) === 'failed') {
         out.status = 'failed';
         out.message = `integration failed at t = ${t.toFixed(6)} s (step-size underflow or non-finite state)`;
