@@ -12,10 +12,10 @@
  * The number of terms grows like sqrt(max(a, b)) (Press et al., Numerical Recipes, 3rd ed.,
  * 2007, sec. 6.4), so the iteration cap scales with it.
  *
- * The inverse solves I_x(a, b) = p by Newton's method inside a bracket that shrinks with every
- * evaluation (bisection, geometric when the bracket spans decades, whenever a step leaves it),
- * started from the leading term of the series at the nearer end: I ~ x^a / (a B) near 0 and
- * 1 - I ~ (1 - x)^b / (b B) near 1.
+ * The inverse solves ln I_x(a, b) = ln p by safeguarded Newton in ln x inside a bracket that
+ * shrinks with every evaluation (bisection in ln x whenever a step leaves it or stalls), started
+ * from the leading term of the series at the nearer end: I ~ x^a / (a B) near 0 and
+ * 1 - I ~ (1 - x)^b / (b B) near 1 (the upper side is solved as the lower side of Beta(b, a)).
  */
 import { RunError } from '../errors.js';
 import { logBeta, stirlingFrom, stirlingSeries } from './log-gamma.js';
@@ -102,12 +102,71 @@ export function incompleteBetaWithLogBeta(x: number, a: number, b: number, lnB: 
   return 1 - (front * betaFraction(1 - x, b, a)) / b;
 }
 
-/** The Beta(a, b) density at 0 < x < 1, given ln B(a, b). */
-function betaDensity(x: number, a: number, b: number, lnB: number): number {
-  return Math.exp(logFront(x, a, b, lnB) - Math.log(x) - Math.log1p(-x));
+/**
+ * ln I_x(a, b) for 0 < x < 1, without forming I itself where it would underflow (tiny shapes
+ * give I ~ x^a / (a B) with x far below 1e-300 long before I is small).
+ */
+function logLowerTail(x: number, a: number, b: number, lnB: number): number {
+  if (x < (a + 1) / (a + b + 2))
+    return logFront(x, a, b, lnB) + Math.log(betaFraction(x, a, b)) - Math.log(a);
+  return Math.log1p(-(Math.exp(logFront(x, a, b, lnB)) * betaFraction(1 - x, b, a)) / b);
 }
 
-/** x with I_x(a, b) = p: the p-quantile of Beta(a, b). */
+// Smallest positive double (subnormal): the bracket's floor; a quantile below it rounds to 0.
+const smallestX = Number.MIN_VALUE;
+// Relative step in x at which the search stops: two ulps of a double.
+const relativeStepTolerance = 4.5e-16;
+// Bisections alone need ln(745 / 4.5e-16) / ln 2 ~ 61 steps; Newton steps only ever shorten it.
+const maxIterations = 400;
+
+/**
+ * x in (0, hi] with I_x(a, b) = p, given I_hi >= p. Newton's method on
+ * g(t) = ln I_(e^t)(a, b) - ln p in t = ln x, where g'(t) = x f(x) / I_x and g is nearly
+ * linear for small x (g ~ a t + const), so tiny shapes converge in a few steps. Safeguarded as
+ * in Press et al., Numerical Recipes, 3rd ed., 2007, sec. 9.4 (rtsafe): a step that leaves the
+ * bracket or does not halve the previous step is replaced by bisection in t (geometric in x).
+ * The step is applied as x e^(dt), which keeps x to full relative precision even near 1e-300.
+ */
+function lowerQuantile(p: number, a: number, b: number, lnB: number, hi: number): number {
+  const logP = Math.log(p);
+  if (logLowerTail(smallestX, a, b, lnB) >= logP) return 0;
+  let lo = smallestX;
+  // Start from the leading term x^a / (a B), clamped into the bracket.
+  let x = Math.exp((logP + Math.log(a) + lnB) / a);
+  if (!(x > lo && x < hi)) x = Math.sqrt(lo) * Math.sqrt(hi);
+  let previousStep = Math.log(hi / lo);
+  let step = previousStep;
+  for (let iteration = 0; iteration < maxIterations; iteration++) {
+    const logI = logLowerTail(x, a, b, lnB);
+    const g = logI - logP;
+    if (g === 0) return x;
+    if (g > 0) hi = x;
+    else lo = x;
+    const slope = Math.exp(logFront(x, a, b, lnB) - Math.log1p(-x) - logI);
+    let dt = -g / slope;
+    const newton = x * Math.exp(dt);
+    const stalled = Math.abs(2 * dt) > Math.abs(previousStep);
+    previousStep = step;
+    let next: number;
+    if (newton > lo && newton < hi && !stalled && Number.isFinite(dt)) next = newton;
+    else {
+      next = Math.sqrt(lo) * Math.sqrt(hi);
+      dt = Math.log(next / x);
+    }
+    step = dt;
+    if (Math.abs(dt) <= relativeStepTolerance || hi / lo <= 1 + relativeStepTolerance) return next;
+    x = next;
+  }
+  // Unreachable in exact arithmetic: the bracket at least halves (in ln x) every two steps.
+  throw new RunError(`incomplete beta inverse did not converge (p=${p}, a=${a}, b=${b})`);
+}
+
+/**
+ * x with I_x(a, b) = p: the p-quantile of Beta(a, b), for any finite a, b > 0. Below 1/2 it
+ * solves for x directly; above it for y = 1 - x in I_y(b, a) = 1 - p (A&S 26.5.2), so
+ * quantiles close to 1 keep their distance from 1 to full relative precision until the
+ * subtraction at the end.
+ */
 export function incompleteBetaInverse(p: number, a: number, b: number): number {
   checkShape('incompleteBetaInverse', a, b);
   if (!(p >= 0 && p <= 1))
@@ -115,33 +174,8 @@ export function incompleteBetaInverse(p: number, a: number, b: number): number {
   if (p === 0) return 0;
   if (p === 1) return 1;
   const lnB = logBeta(a, b);
-  const mean = a / (a + b);
-  const atMean = incompleteBetaRegularized(mean, a, b);
-  let lo: number;
-  let hi: number;
-  let x: number;
-  if (p < atMean) {
-    lo = 0;
-    hi = mean;
-    x = Math.exp((Math.log(p) + Math.log(a) + lnB) / a);
-  } else {
-    lo = mean;
-    hi = 1;
-    x = -Math.expm1((Math.log1p(-p) + Math.log(b) + lnB) / b);
-  }
-  if (!(x > lo && x < hi)) x = lo === 0 ? hi / 2 : (lo + hi) / 2;
-  for (let iteration = 0; iteration < 300; iteration++) {
-    const g = incompleteBetaRegularized(x, a, b) - p;
-    if (g === 0) return x;
-    if (g > 0) hi = x;
-    else lo = x;
-    let next = x - g / betaDensity(x, a, b, lnB);
-    if (!(next > lo && next < hi)) {
-      // Bisect: geometrically when the bracket spans decades (tiny quantiles), else halve.
-      next = lo > 0 && hi / lo > 8 ? Math.sqrt(lo * hi) : lo === 0 ? hi / 8 : 0.5 * (lo + hi);
-    }
-    if (Math.abs(next - x) <= 4e-16 * Math.max(x, next) || hi - lo <= 4e-16 * hi) return next;
-    x = next;
-  }
-  throw new RunError(`incomplete beta inverse did not converge (p=${p}, a=${a}, b=${b})`);
+  // Pivot at x = 1/2, not at the mean: a quantile below 1/2 solved as 1 - y would keep only
+  // the absolute precision of y near 1 (1e-16), losing relative digits of a small x.
+  if (p < incompleteBetaWithLogBeta(0.5, a, b, lnB)) return lowerQuantile(p, a, b, lnB, 0.5);
+  return 1 - lowerQuantile(1 - p, b, a, lnB, 0.5);
 }
