@@ -109,7 +109,8 @@ export function writeDriversArrow(dir: string, result: DriversResult): string {
       name: 'driver',
       kind: 'utf8',
       unit: '1',
-      description: 'month, hour_of_day, soc_band, sources_out, deficit_band or shutdown_cause',
+      description:
+        'month, hour_of_day, soc_band, sources_out (one out / in service pair per source), deficit_band or shutdown_cause',
       values: r.map((x) => x.driver),
     },
     {

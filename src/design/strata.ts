@@ -3,7 +3,7 @@
  * day, battery state-of-charge band, which sources were out, and the size of the deficit at
  * separation. Each is a partition (every scenario in exactly one stratum), which is what makes
  * the stratified conditional probabilities add back, with their weight shares, to the overall
- * estimate (law of total probability).
+ * estimate (law of total probability). Sources out give one two-way partition per source.
  *
  * Calendar: hour 0 = 1 January 00:00-01:00, a 365-day year (scenario.ts), months of
  * 31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31 days.
@@ -125,25 +125,56 @@ export function deficitPartition(frame: ScenarioFrame): Partition | undefined {
 }
 
 /**
- * Which sources were out (forced outage, maintenance or failed start), from the `sources_out`
- * column: source ids joined by '+', '' when none; each distinct combination is a stratum. Without
- * that column, the count of sources available at the event hour (`sources_available`) is the
- * partition: "5 sources available", "4 sources available", ...
+ * Which sources were out (forced outage or maintenance), from the `sources_out` column: source
+ * ids joined by '+', '' when none. Each source that is out in some scenario gets a two-way
+ * partition of its own, "diesel-2 out" against "diesel-2 in service", so a source is judged by
+ * every scenario it was out in, whatever else was out with it (a partition by combination would
+ * scatter a source over many thin strata). The rows of this driver therefore add back source by
+ * source: q(X out) p(X out) + q(X in service) p(X in service) = p for each X. With no source
+ * ever out, one stratum "no source out". Without the column (files written before it), the
+ * count of sources available at the event hour (`sources_available`) is the partition:
+ * "5 sources available", "4 sources available", ...
  */
-export function sourcesOutPartition(frame: ScenarioFrame): Partition | undefined {
+export function sourcesOutPartitions(frame: ScenarioFrame): Partition[] {
   const out = frame.text('sources_out');
-  if (!out) return sourcesAvailablePartition(frame);
-  const index = new Map<string, number>();
-  const strata: string[] = [];
-  const codes = new Int32Array(frame.n);
-  // strata in order of first appearance after sorting the labels, so codes do not depend on row order
-  const labels = [...new Set(out)].sort();
-  for (const l of labels) {
-    index.set(l, strata.length);
-    strata.push(l === '' ? 'no source out' : `${l.split('+').join(' + ')} out`);
+  if (!out) {
+    const byCount = sourcesAvailablePartition(frame);
+    return byCount ? [byCount] : [];
   }
-  for (let i = 0; i < frame.n; i++) codes[i] = index.get(out[i]!)!;
-  return { driver: 'sources_out', label: 'sources out', strata, codes };
+  // each source's rows, ids sorted so the partitions do not depend on row order
+  const rowsOf = new Map<string, number[]>();
+  for (let i = 0; i < frame.n; i++) {
+    if (out[i] === '') continue;
+    for (const id of out[i]!.split('+')) {
+      const rows = rowsOf.get(id);
+      if (rows) rows.push(i);
+      else rowsOf.set(id, [i]);
+    }
+  }
+  if (rowsOf.size === 0)
+    return [
+      {
+        driver: 'sources_out',
+        label: 'sources out',
+        strata: ['no source out'],
+        codes: new Int32Array(frame.n),
+      },
+    ];
+  return [...rowsOf.keys()].sort().map((id) => {
+    const codes = new Int32Array(frame.n).fill(1);
+    for (const i of rowsOf.get(id)!) codes[i] = 0;
+    return {
+      driver: 'sources_out',
+      label: `source ${id}`,
+      strata: [`${id} out`, `${id} in service`],
+      codes,
+    };
+  });
+}
+
+/** The partition by which sources were out: the first of `sourcesOutPartitions` (tests, tables). */
+export function sourcesOutPartition(frame: ScenarioFrame): Partition | undefined {
+  return sourcesOutPartitions(frame)[0];
 }
 
 function sourcesAvailablePartition(frame: ScenarioFrame): Partition | undefined {
@@ -163,7 +194,7 @@ export function driverPartitions(frame: ScenarioFrame): Partition[] {
     monthPartition(frame),
     hourOfDayPartition(frame),
     socBandPartition(frame),
-    sourcesOutPartition(frame),
+    ...sourcesOutPartitions(frame),
     deficitPartition(frame),
   ].filter((p): p is Partition => p !== undefined);
 }

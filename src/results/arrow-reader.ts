@@ -6,7 +6,7 @@
 import { open } from 'node:fs/promises';
 import { type RecordBatch, RecordBatchReader } from 'apache-arrow';
 import { CaseError } from '../errors.js';
-import { allocateBatch, type ColumnBatch, type ColumnSpec } from './columns.js';
+import { allocateBatch, type ColumnBatch, type ColumnSpec, packUtf8 } from './columns.js';
 
 /** Yields the record batches of an Arrow IPC file. */
 export async function* readRecordBatches(path: string): AsyncGenerator<RecordBatch> {
@@ -33,6 +33,10 @@ export function toColumnBatch(
     const child = rb.getChild(spec.name);
     if (!child)
       throw CaseError.single(path, `expected column ${spec.name} (as in run.json), not found`);
+    if (spec.kind === 'utf8') {
+      out.columns[spec.name] = utf8Column(child.data, n);
+      continue;
+    }
     const target = out.columns[spec.name]!;
     let offset = 0;
     for (const d of child.data) {
@@ -52,4 +56,32 @@ export function toColumnBatch(
     }
   }
   return out;
+}
+
+/** Re-packs the chunks of a Utf8 column (each with its own offsets and slice) into one column. */
+function utf8Column(
+  chunks: readonly {
+    offset: number;
+    length: number;
+    valueOffsets: Int32Array;
+    values: Uint8Array;
+  }[],
+  count: number,
+): Uint8Array {
+  let size = 0;
+  for (const d of chunks) size += d.valueOffsets[d.offset + d.length]! - d.valueOffsets[d.offset]!;
+  const offsets = new Int32Array(count + 1);
+  const bytes = new Uint8Array(size);
+  let row = 0;
+  let at = 0;
+  for (const d of chunks) {
+    const start = d.valueOffsets[d.offset]!;
+    const end = d.valueOffsets[d.offset + d.length]!;
+    bytes.set(d.values.subarray(start, end), at);
+    for (let i = 0; i < d.length; i++)
+      offsets[row + i + 1] = at + d.valueOffsets[d.offset + i + 1]! - start;
+    at += end - start;
+    row += d.length;
+  }
+  return packUtf8(offsets, bytes, count);
 }

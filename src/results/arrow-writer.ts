@@ -25,7 +25,7 @@ import {
   type Vector,
   vectorFromArray,
 } from 'apache-arrow';
-import type { ColumnBatch, ColumnSpec } from './columns.js';
+import { type ColumnBatch, type ColumnSpec, unpackUtf8 } from './columns.js';
 
 function arrowType(spec: ColumnSpec, dictionaryId: number): DataType {
   switch (spec.kind) {
@@ -41,6 +41,8 @@ function arrowType(spec: ColumnSpec, dictionaryId: number): DataType {
       return new Dictionary(new Utf8(), new Int8(), dictionaryId);
     case 'float64':
       return new Float64();
+    case 'utf8':
+      return new Utf8();
   }
 }
 
@@ -85,6 +87,10 @@ export class BatchEncoder {
       if (!data) throw new Error(`batch at id ${batch.firstId} lacks column ${spec.name}`);
       if (spec.kind === 'bool')
         return makeData({ type, length: n, data: packBits(data as Uint8Array, n) });
+      if (spec.kind === 'utf8') {
+        const { offsets, bytes } = unpackUtf8(data as Uint8Array, n);
+        return makeData({ type, length: n, valueOffsets: offsets, data: bytes } as never);
+      }
       if (spec.kind === 'category')
         return makeData({
           type,

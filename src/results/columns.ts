@@ -7,10 +7,13 @@
  *   int64 -> Int64 (held as BigInt64Array), int16 -> Int16, int8 -> Int8,
  *   bool -> Bool (held as Uint8Array 0/1, packed to a bitmap when written),
  *   category -> Dictionary<Utf8, Int8> (held as Int8Array codes into `categories`),
- *   float64 -> Float64.
+ *   float64 -> Float64,
+ *   utf8 -> Utf8 (free text whose values are not known in advance, such as which sources were
+ *     out; held as one Uint8Array per batch: count + 1 little-endian Int32 offsets, then the
+ *     UTF-8 bytes, see `packUtf8`), so a batch stays a set of transferable buffers.
  */
 
-export type ColumnKind = 'int64' | 'int16' | 'int8' | 'bool' | 'category' | 'float64';
+export type ColumnKind = 'int64' | 'int16' | 'int8' | 'bool' | 'category' | 'float64' | 'utf8';
 
 /** The models, in kernel order; each contributes one group of columns. */
 export const columnGroups = [
@@ -112,6 +115,14 @@ export const allColumns: readonly ColumnSpec[] = [
     kind: 'int16',
     unit: '1',
     description: 'sources not on forced outage or maintenance at the event hour',
+    group: 'sample',
+  },
+  {
+    name: 'sources_out',
+    kind: 'utf8',
+    unit: '1',
+    description:
+      "ids of the sources on forced outage or maintenance at the event hour, in case order, joined by '+' (empty when none)",
     group: 'sample',
   },
   f64('sample', 'dip_retained_pu', 'pu', 'retained voltage at the PCC during the fault'),
@@ -286,7 +297,6 @@ export const allColumns: readonly ColumnSpec[] = [
   },
 ];
 
-/** The columns of the given groups, in file order. */
 /** Writes a non-negative integer below 2^53 into a BigInt64Array without allocating a BigInt. */
 export function setInt64(words: Int32Array, row: number, value: number): void {
   // little-endian word order (x64 and arm64 Node builds)
@@ -294,6 +304,7 @@ export function setInt64(words: Int32Array, row: number, value: number): void {
   words[2 * row + 1] = Math.floor(value / 4294967296);
 }
 
+/** The columns of the given groups, in file order. */
 export function columnsOf(groups: readonly ColumnGroup[]): ColumnSpec[] {
   return allColumns.filter((c) => groups.includes(c.group));
 }
@@ -312,7 +323,42 @@ export function allocateColumn(spec: ColumnSpec, count: number): ColumnArray {
       return new Uint8Array(count);
     case 'float64':
       return new Float64Array(count);
+    case 'utf8':
+      // every row the empty string until the producer packs its text (offsets all 0)
+      return new Uint8Array(4 * (count + 1));
   }
+}
+
+/**
+ * Packs `count` strings into a utf8 column: offsets then bytes (the layout of `allocateColumn`).
+ * `offsets` holds count + 1 byte offsets into `bytes`, offsets[0] = 0.
+ */
+export function packUtf8(offsets: Int32Array, bytes: Uint8Array, count: number): Uint8Array {
+  const size = offsets[count]!;
+  const out = new Uint8Array(4 * (count + 1) + size);
+  new Int32Array(out.buffer, 0, count + 1).set(offsets.subarray(0, count + 1));
+  out.set(bytes.subarray(0, size), 4 * (count + 1));
+  return out;
+}
+
+/** The offsets and bytes of a utf8 column of `count` rows (views, no copy). */
+export function unpackUtf8(
+  column: Uint8Array,
+  count: number,
+): { offsets: Int32Array; bytes: Uint8Array } {
+  const head = 4 * (count + 1);
+  return {
+    offsets: new Int32Array(column.buffer, column.byteOffset, count + 1),
+    bytes: column.subarray(head),
+  };
+}
+
+const utf8Decoder = new TextDecoder();
+
+/** Row `row` of a utf8 column of `count` rows as a string. */
+export function utf8At(column: Uint8Array, count: number, row: number): string {
+  const { offsets, bytes } = unpackUtf8(column, count);
+  return utf8Decoder.decode(bytes.subarray(offsets[row]!, offsets[row + 1]!));
 }
 
 /** One batch of consecutive scenarios as columns (what a worker returns). */

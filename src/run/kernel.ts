@@ -9,7 +9,8 @@
  * order in which batches finish.
  *
  * Hot path: the kernel owns one preallocated `Scenario` struct and the models' result structs;
- * per scenario it allocates nothing. The batch columns are allocated once per batch (they are
+ * per scenario it allocates nothing (the `sources_out` text is appended as bytes from the
+ * source ids encoded once, into a byte buffer that only grows). The batch columns are allocated once per batch (they are
  * transferred to the main thread and cannot be reused).
  */
 import type { Case } from '../case/schema.js';
@@ -28,6 +29,7 @@ import {
   type ColumnSpec,
   columnsOf,
   eventStatuses,
+  packUtf8,
   setInt64,
   shutdownCauses,
   voltageStatuses,
@@ -104,6 +106,7 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
   const causeCode = new Map(shutdownCauses.map((name, k) => [name, k]));
   const otherCause = causeCode.get('other')!;
   const statusCode = new Map(eventStatuses.map((name, k) => [name, k]));
+  const sourcesOut = new SourceSetText(c.sources.map((s) => s.id));
 
   function runBatch(firstId: number, count: number): ColumnBatch {
     const batch = allocateBatch(specs, firstId, count);
@@ -118,6 +121,7 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
     const soc = col['battery_soc'] as Float64Array;
     const gridKw = col['grid_import_kw'] as Float64Array;
     const nAvailable = col['sources_available'] as Int16Array;
+    sourcesOut.start(count);
     const dipPu = col['dip_retained_pu'] as Float64Array;
     const dipS = col['dip_duration_s'] as Float64Array;
     const outageH = col['outage_duration_h'] as Float64Array;
@@ -193,6 +197,7 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
       let n = 0;
       for (let i = 0; i < sc.sourceCount; i++) n += sc.available[i]!;
       nAvailable[row] = n;
+      sourcesOut.addRow(row, sc.available);
       dipPu[row] = sc.dipRetainedPu;
       dipS[row] = sc.dipDurationS;
       outageH[row] = sc.outageDurationH;
@@ -240,8 +245,57 @@ export function compileKernel(c: Case, caseDir: string, opts: KernelOptions): Sc
       criticalLost[row] = out.criticalLost ? 1 : 0;
       shutdownAny[row] = out.shutdown ? 1 : 0;
     }
+    col['sources_out'] = sourcesOut.pack(count);
     return batch;
   }
 
   return { groups, specs, runBatch };
+}
+
+const plus = 0x2b; // '+', the separator of source ids in sources_out
+
+/**
+ * The `sources_out` text of a batch: per row, the ids of the unavailable sources joined by '+',
+ * written as UTF-8 bytes from ids encoded once; offsets and bytes are reused across batches.
+ */
+class SourceSetText {
+  private readonly ids: Uint8Array[];
+  private offsets = new Int32Array(1);
+  private bytes = new Uint8Array(256);
+
+  constructor(ids: readonly string[]) {
+    const encoder = new TextEncoder();
+    this.ids = ids.map((id) => encoder.encode(id));
+  }
+
+  start(count: number): void {
+    if (this.offsets.length < count + 1) this.offsets = new Int32Array(count + 1);
+    this.offsets[0] = 0;
+  }
+
+  addRow(row: number, available: Uint8Array): void {
+    let at = this.offsets[row]!;
+    let first = true;
+    for (let i = 0; i < this.ids.length; i++) {
+      if (available[i] !== 0) continue;
+      const id = this.ids[i]!;
+      this.reserve(at + id.length + 1);
+      if (!first) this.bytes[at++] = plus;
+      this.bytes.set(id, at);
+      at += id.length;
+      first = false;
+    }
+    this.offsets[row + 1] = at;
+  }
+
+  pack(count: number): Uint8Array {
+    return packUtf8(this.offsets, this.bytes, count);
+  }
+
+  private reserve(size: number): void {
+    if (size <= this.bytes.length) return;
+    const bigger = new Uint8Array(Math.max(size, 2 * this.bytes.length));
+    bigger.set(this.bytes);
+    this.bytes = bigger;
+  }
 }

@@ -13,7 +13,7 @@ import { compileIsland } from '../grid/frequency/island.js';
 import { simulateEvent, type TraceSink } from '../grid/frequency/simulate.js';
 import { applyRideThrough, compileRideThrough } from '../grid/voltage/ride-through.js';
 import { ArrowFileSink, BatchEncoder } from '../results/arrow-writer.js';
-import type { ColumnBatch, ColumnSpec } from '../results/columns.js';
+import { type ColumnBatch, type ColumnSpec, utf8At } from '../results/columns.js';
 import { compileSampler, sampleScenario } from '../sample/sampler.js';
 import { Scenario } from '../sample/scenario.js';
 import { compileKernel } from './kernel.js';
@@ -79,6 +79,10 @@ function rowOf(
 ): Record<string, number | string | boolean> {
   const row: Record<string, number | string | boolean> = {};
   for (const s of specs) {
+    if (s.kind === 'utf8') {
+      row[s.name] = utf8At(b.columns[s.name] as Uint8Array, b.count, 0);
+      continue;
+    }
     const v = b.columns[s.name]![0]!;
     if (s.kind === 'int64') row[s.name] = Number(v);
     else if (s.kind === 'bool') row[s.name] = v === 1;

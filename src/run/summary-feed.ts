@@ -81,7 +81,7 @@ export function feedSummary(
 ): void {
   const cols: Record<string, ArrayLike<number>> = {};
   for (const s of specs) {
-    if (s.kind === 'int64') continue;
+    if (s.kind === 'int64' || s.kind === 'utf8') continue;
     const a = batch.columns[s.name]!;
     cols[s.name] = (a as Float64Array).subarray(from, from + count);
   }

@@ -9,6 +9,7 @@ import {
   niceStep,
   socBandPartition,
   sourcesOutPartition,
+  sourcesOutPartitions,
 } from '../../src/design/strata.js';
 import { twoSidedZ } from '../../src/stats/normal.js';
 import { toyScenarioTable } from './fixture.js';
@@ -57,6 +58,55 @@ describe('strata', () => {
       '3 sources available',
     ]);
     expect([...out.codes]).toEqual([0, 1, 0, 2]);
+  });
+
+  it('gives each source out its own two-way partition, whatever else was out with it', () => {
+    // invented rows: d1 out in rows 1 and 3, d2 out in rows 2 and 3 (together in row 3)
+    const frame = new ScenarioFrame(
+      tableFromArrays({
+        scenario_id: BigInt64Array.from([0n, 1n, 2n, 3n, 4n]),
+        weight: Float64Array.from([1, 2, 1, 0.5, 1.5]),
+        shutdown: [false, true, false, true, false],
+        shed_kw: Float64Array.from([0, 10, 0, 10, 0]),
+        sources_out: ['', 'd1', 'd2', 'd1+d2', ''],
+      }),
+      'two sources',
+    );
+    const parts = sourcesOutPartitions(frame);
+    expect(parts.map((p) => p.strata)).toEqual([
+      ['d1 out', 'd1 in service'],
+      ['d2 out', 'd2 in service'],
+    ]);
+    expect([...parts[0]!.codes]).toEqual([1, 0, 1, 0, 1]);
+    expect([...parts[1]!.codes]).toEqual([1, 1, 0, 0, 1]);
+    const result = computeDrivers(frame, { confidenceLevel: 0.95 });
+    const row = (stratum: string) =>
+      result.rows.find((r) => r.outcome === 'shutdown' && r.stratum === stratum)!;
+    // weighted by hand: d1 out = rows 1, 3: (2 + 0.5) / (2 + 0.5) = 1; d2 out = rows 2, 3:
+    // 0.5 / 1.5; d2 in service = rows 0, 1, 4: 2 / 4.5
+    expect(row('d1 out').probability).toBe(1);
+    expect(row('d2 out').probability).toBeCloseTo(0.5 / 1.5, 15);
+    expect(row('d2 in service').probability).toBeCloseTo(2 / 4.5, 15);
+    expect(row('d1 out').driver).toBe('sources_out');
+    // each source's pair adds back to the overall 2.5 / 6 (law of total probability)
+    for (const id of ['d1', 'd2']) {
+      const pair = [row(`${id} out`), row(`${id} in service`)];
+      const total = pair.reduce((sum, r) => sum + r.weightShare * r.probability, 0);
+      expect(total).toBeCloseTo(2.5 / 6, 15);
+    }
+    expect(result.missing).not.toContain('sources_out');
+  });
+
+  it('has one stratum "no source out" when the column is there but nothing was out', () => {
+    const frame = new ScenarioFrame(
+      tableFromArrays({
+        scenario_id: BigInt64Array.from([0n, 1n]),
+        sources_available: Int16Array.from([2, 2]),
+        sources_out: ['', ''],
+      }),
+      'none out',
+    );
+    expect(sourcesOutPartitions(frame).map((p) => p.strata)).toEqual([['no source out']]);
   });
 
   it('picks 1-2-5 steps', () => {
