@@ -85,7 +85,8 @@ export const optionTable = {
     flags: '--out <dir>',
     attribute: 'out',
     kind: 'path',
-    description: 'output folder (default results/<case file stem>/)',
+    // neutral: each command names its own default through `addOptions(cmd, keys, wording)`
+    description: 'output folder (default: a folder under results/ named after the input)',
   },
   set: {
     flags: '--set <path=value>',
@@ -129,7 +130,9 @@ export const optionTable = {
     attribute: 'failIf',
     kind: 'gates',
     description:
-      'exit 1 when a summary metric exceeds the value, e.g. p_shutdown>0.01 (repeatable)',
+      'exit 1 unless the confidence bound is on the safe side: metric>value fails when the ' +
+      'upper bound is above value, metric<value when the lower bound is below it, ' +
+      'e.g. p_shutdown>0.01 or loading_margin<1.2 (repeatable)',
   },
   debug: {
     flags: '--debug',
@@ -189,13 +192,21 @@ export const commonRunOptions = [
 const collect = (value: string, previous: string[] | undefined): string[] =>
   (previous ?? []).concat(value);
 
-/** Adds the given rows of the option table to a commander command. */
-export function addOptions(cmd: Command, keys: readonly OptionKey[]): Command {
+/**
+ * Adds the given rows of the option table to a commander command. `wording` replaces the help
+ * text of a row for this command only (e.g. where `--out` defaults to for it); the parsing stays
+ * the table's.
+ */
+export function addOptions(
+  cmd: Command,
+  keys: readonly OptionKey[],
+  wording: Partial<Record<OptionKey, string>> = {},
+): Command {
   for (const key of keys) {
     const spec: OptionSpec = optionTable[key];
-    if (spec.kind === 'list' || spec.kind === 'gates')
-      cmd.option(spec.flags, spec.description, collect);
-    else cmd.option(spec.flags, spec.description);
+    const description = wording[key] ?? spec.description;
+    if (spec.kind === 'list' || spec.kind === 'gates') cmd.option(spec.flags, description, collect);
+    else cmd.option(spec.flags, description);
   }
   return cmd;
 }

@@ -58,7 +58,9 @@ export const addCompareCommand: AddCommand = (program: Command, frame) => {
         'instead of case files, pairs them as they are (e.g. merged shards) without running. ' +
         'Screening estimates, not engineering approval.',
     );
-  addOptions(cmd, commonRunOptions);
+  addOptions(cmd, commonRunOptions, {
+    out: 'output folder (default results/<base>-vs-<variant>/, named after the two case files or run folders)',
+  });
   cmd.action(
     frame.action(async ([basePath, variantPath], options, io) => {
       const isDir = (p: string | undefined) =>

@@ -17,7 +17,9 @@ export const addReplayCommand: AddCommand = (program: Command, frame) => {
         'scenarios.arrow and writes trajectory.arrow (t_s, f_hz, rocof_hz_per_s, p_<source>_kw, ' +
         'load_kw, shed_kw) to --out (default results/<case stem>/replay-<K>/).',
     );
-  addOptions(cmd, ['scenario', 'seed', 'out', 'set', 'json', 'debug']);
+  addOptions(cmd, ['scenario', 'seed', 'out', 'set', 'json', 'debug'], {
+    out: 'output folder (default results/<case stem>/replay-<K>/)',
+  });
   cmd.action(
     frame.action(async ([casePath], options, io) => {
       if (options.scenario === undefined)

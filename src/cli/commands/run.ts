@@ -31,7 +31,9 @@ export const addRunCommand: AddCommand = (program: Command, frame) => {
         'Ctrl-C finishes the batches in flight and writes valid partial files; --resume continues. ' +
         'The figures are screening estimates, not engineering approval.',
     );
-  addOptions(cmd, [...commonRunOptions, 'resume', 'untilRelError']);
+  addOptions(cmd, [...commonRunOptions, 'resume', 'untilRelError'], {
+    out: 'output folder (default results/<case file stem>/)',
+  });
   cmd.action(
     frame.action(async ([casePath], options, io) => {
       const loaded = await loadCase(resolve(io.cwd, casePath!), options.set);

@@ -34,7 +34,9 @@ export const addSweepCommand: AddCommand = (program: Command, frame) => {
         'interval) and one run folder per value. The table points out the knee of the risk ' +
         'curve where there is one. Screening estimates, not engineering approval.',
     );
-  addOptions(cmd, commonRunOptions);
+  addOptions(cmd, commonRunOptions, {
+    out: 'output folder (default results/<case stem>-sweep-<last part of PATH>/, one run per value)',
+  });
   cmd.action(
     frame.action(async ([casePath], options, io) => {
       const spec = parseSweepSets(options.set);
