@@ -312,6 +312,12 @@ export const batterySchema = z.strictObject({
       'what the battery does while grid-connected (sets its output and charge at separation)',
     ),
   rideThrough: rideThroughCategory.default('II'),
+  seamlessTransfer: z
+    .boolean()
+    .default(true)
+    .describe(
+      'grid-forming batteries: holds the island voltage through the separation (seamless transfer, as islanding-capable storage is specified), so the dip does not trip it or make it cease; false applies its rideThrough category like any inverter source (common practice, no source)',
+    ),
   reactiveKvarMax: positive().optional(),
   voltageDroopPu: finite()
     .min(0)

@@ -21,7 +21,9 @@
  *     minimum time, or below the lowest ride-through band). The reading taken by default is that
  *     such a source trips (mayTrip: 'trip'): a screening study should not count on behaviour the
  *     standard leaves to the manufacturer. `mayTrip: 'ride-through'` takes the other reading.
- * Only inverter sources (battery, pv, wind, fuelcell) are checked. Gensets ride through: a
+ * Only inverter sources (battery, pv, wind, fuelcell) are checked, except a grid-forming battery
+ * with `seamlessTransfer` (the default): it forms the island and holds voltage through the
+ * separation by design (common practice, no source). Gensets ride through: a
  * synchronous machine has no IEEE 1547 ride-through category here and its undervoltage relay
  * (ANSI 27) is usually set with seconds of delay, longer than the sampled dips (common practice,
  * no source).
@@ -77,6 +79,9 @@ export function compileRideThrough(
   const category: (RideThroughCategory | undefined)[] = [];
   for (const s of c.sources) {
     if (s.kind === 'genset') category.push(undefined);
+    // the island's grid-forming battery rides the separation it is built for, unless the case says not
+    else if (s.kind === 'battery' && s.control === 'grid-forming' && s.seamlessTransfer)
+      category.push(undefined);
     else category.push(s.rideThrough);
   }
   category.forEach((cat, k) => {

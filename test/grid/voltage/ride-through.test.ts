@@ -135,7 +135,10 @@ describe('applyRideThrough on a case', () => {
   });
 
   it('sets the cessation time of sources that cease to energize and skips sources not running', () => {
-    const c = parseCase(inventedIslandInput());
+    const input = inventedIslandInput();
+    // the batteries are grid-forming: apply their category at the dip instead of seamless transfer
+    for (const s of input.sources) if (s.kind === 'battery') s.seamlessTransfer = false;
+    const c = parseCase(input);
     const m = compileRideThrough(c);
     const sc = new Scenario(c.sources.length, c.loads.length);
     sc.available.fill(1);
@@ -150,5 +153,26 @@ describe('applyRideThrough on a case', () => {
     expect(sc.cessationS[3]).toBe(0);
     expect(sc.trippedAtSeparation[3]).toBe(0);
     expect(sc.trippedAtSeparation[0]).toBe(0);
+  });
+
+  it('leaves a grid-forming battery with seamless transfer (the default) untouched by the dip', () => {
+    // the island's grid-forming storage holds voltage through the separation it is built for
+    // (common practice, no source); a grid-following battery is still judged by its category
+    const input = inventedIslandInput();
+    const bess2 = input.sources[2];
+    if (bess2?.kind === 'battery') bess2.control = 'grid-following';
+    const c = parseCase(input);
+    const m = compileRideThrough(c);
+    const sc = new Scenario(c.sources.length, c.loads.length);
+    sc.available.fill(1);
+    sc.running.fill(1);
+    sc.dipRetainedPu = 0.4;
+    sc.dipDurationS = 0.1;
+    applyRideThrough(m, sc);
+    expect(m.checked[1]).toBe(0); // bess1, grid-forming
+    expect(sc.cessationS[1]).toBe(0);
+    expect(sc.trippedAtSeparation[1]).toBe(0);
+    expect(m.checked[2]).toBe(1); // bess2, grid-following: Category II at 0.4 pu for 0.1 s
+    expect(sc.cessationS[2]).toBe(MOMENTARY_CESSATION_RESTORE_S);
   });
 });
