@@ -186,7 +186,9 @@ export class DormandPrince {
     let h = fixedHS > 0 ? fixedHS : Math.min(this.nextHS, maxHS, ctl.maxStepS);
     if (fixedHS > 0 && h > maxHS) h = maxHS;
     for (;;) {
-      if (!(h >= ctl.minStepS) && h < maxHS) {
+      // Fail on underflow (a step below minStepS that is not just the short rest of the
+      // interval) and on a NaN step size (a non-finite derivative at the start).
+      if (!(h > 0) || (h < ctl.minStepS && h < maxHS)) {
         this.restoreAfterFailure();
         return 'failed';
       }

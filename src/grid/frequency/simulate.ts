@@ -462,6 +462,7 @@ function finish(e: Engine, tS: number, out: EventResult): void {
   const tr = e.tracker;
   let dw = x[0]!;
   if (!Number.isFinite(dw)) dw = tr.nadirPu;
+  if (!Number.isFinite(out.deficitKw)) out.deficitKw = 0;
   out.endTimeS = tS;
   out.fSettledHz = f0 * (1 + dw);
   out.nadirHz = f0 * (1 + Math.min(tr.nadirPu, dw));

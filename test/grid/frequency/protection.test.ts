@@ -236,3 +236,34 @@ describe('reuse', () => {
     expect(r2).toEqual(r1);
   });
 });
+
+describe('a run that cannot be integrated', () => {
+  it("ends as 'failed' with a reason and no NaN anywhere in the result", () => {
+    const c = makeCase(
+      [genset('g1', 1000, { governor: gov }), pv('pv', 300)],
+      [load('l', 'critical', 700)],
+    );
+    const isl = compileIsland(c);
+    const op = makeScenario(c, { dispatchKw: [400, Number.NaN] });
+    const out = new EventResult(2, 1);
+    simulateEvent(isl, op, { horizonS: 10, rocofWindowS: 0.1 }, out);
+    expect(out.status).toBe('failed');
+    expect(out.message).toMatch(/integration failed/);
+    for (const v of [
+      out.deficitKw,
+      out.nadirHz,
+      out.zenithHz,
+      out.fSettledHz,
+      out.rocofMaxHzPerS,
+      out.shedKw,
+    ])
+      expect(Number.isFinite(v)).toBe(true);
+    for (const arr of [
+      out.outputKwAtEnd,
+      out.socAtEnd,
+      out.energyDeliveredKwh,
+      out.loadServedFraction,
+    ])
+      for (const v of arr) expect(Number.isFinite(v)).toBe(true);
+  });
+});
