@@ -62,39 +62,41 @@ export const voltageStatuses: readonly string[] = [
   'not assessed',
 ];
 
-const f64 = (group: ColumnGroup, name: string, unit: string, description: string): ColumnSpec => ({
-  name,
-  kind: 'float64',
-  unit,
-  description,
-  group,
-});
+/** One column of the table (categories only for `category` columns). */
+function column(
+  group: ColumnGroup,
+  kind: ColumnKind,
+  name: string,
+  unit: string,
+  description: string,
+  categories?: readonly string[],
+): ColumnSpec {
+  const spec = { name, kind, unit, description, group };
+  return categories ? { ...spec, categories } : spec;
+}
+
+const f64 = (group: ColumnGroup, name: string, unit: string, description: string): ColumnSpec =>
+  column(group, 'float64', name, unit, description);
 
 /** Every column holdfast can write, in file order. */
 export const allColumns: readonly ColumnSpec[] = [
-  {
-    name: 'scenario_id',
-    kind: 'int64',
-    unit: '1',
-    description: 'scenario number; with the seed it fixes every random draw of the scenario',
-    group: 'core',
-  },
+  column(
+    'core',
+    'int64',
+    'scenario_id',
+    '1',
+    'scenario number; with the seed it fixes every random draw of the scenario',
+  ),
   f64('core', 'weight', '1', 'sampling weight of the scenario (1 for plain Monte Carlo)'),
   // sampler: the operating point just before separation
-  {
-    name: 'hour_of_year',
-    kind: 'int16',
-    unit: 'h',
-    description: 'hour of the separation event, 0-8759 (0 = 1 January 00:00, local standard time)',
-    group: 'sample',
-  },
-  {
-    name: 'month',
-    kind: 'int8',
-    unit: '1',
-    description: 'month of the event, 1-12',
-    group: 'sample',
-  },
+  column(
+    'sample',
+    'int16',
+    'hour_of_year',
+    'h',
+    'hour of the separation event, 0-8759 (0 = 1 January 00:00, local standard time)',
+  ),
+  column('sample', 'int8', 'month', '1', 'month of the event, 1-12'),
   f64('sample', 'load_kw', 'kW', 'total demand of all loads at the event hour'),
   f64('sample', 'pv_kw', 'kW', 'PV output just before separation, all PV sources'),
   f64('sample', 'wind_kw', 'kW', 'wind output just before separation, all wind sources'),
@@ -110,40 +112,38 @@ export const allColumns: readonly ColumnSpec[] = [
     'kW',
     'power from the utility just before separation (negative is export)',
   ),
-  {
-    name: 'sources_available',
-    kind: 'int16',
-    unit: '1',
-    description: 'sources not on forced outage or maintenance at the event hour',
-    group: 'sample',
-  },
-  {
-    name: 'sources_out',
-    kind: 'utf8',
-    unit: '1',
-    description:
-      "ids of the sources on forced outage or maintenance at the event hour, in case order, joined by '+' (empty when none)",
-    group: 'sample',
-  },
+  column(
+    'sample',
+    'int16',
+    'sources_available',
+    '1',
+    'sources not on forced outage or maintenance at the event hour',
+  ),
+  column(
+    'sample',
+    'utf8',
+    'sources_out',
+    '1',
+    "ids of the sources on forced outage or maintenance at the event hour, in case order, joined by '+' (empty when none)",
+  ),
   f64('sample', 'dip_retained_pu', 'pu', 'retained voltage at the PCC during the fault'),
   f64('sample', 'dip_duration_s', 's', 'duration of the voltage dip before separation'),
   f64('sample', 'outage_duration_h', 'h', 'sampled duration of the utility outage'),
   // ride-through of the fault's voltage dip (src/grid/voltage/ride-through.ts)
-  {
-    name: 'units_tripped_by_dip',
-    kind: 'int16',
-    unit: '1',
-    description:
-      'inverter sources lost to the voltage dip before separation (IEEE 1547-2018 ride-through)',
-    group: 'ride-through',
-  },
-  {
-    name: 'units_in_cessation',
-    kind: 'int16',
-    unit: '1',
-    description: 'inverter sources in momentary cessation after the dip (return after a delay)',
-    group: 'ride-through',
-  },
+  column(
+    'ride-through',
+    'int16',
+    'units_tripped_by_dip',
+    '1',
+    'inverter sources lost to the voltage dip before separation (IEEE 1547-2018 ride-through)',
+  ),
+  column(
+    'ride-through',
+    'int16',
+    'units_in_cessation',
+    '1',
+    'inverter sources in momentary cessation after the dip (return after a delay)',
+  ),
   // frequency event (src/grid/frequency)
   f64(
     'frequency',
@@ -162,79 +162,65 @@ export const allColumns: readonly ColumnSpec[] = [
   ),
   f64('frequency', 'f_settled_hz', 'Hz', 'frequency at the horizon (or at shutdown)'),
   f64('frequency', 'shed_kw', 'kW', 'load shed by under-frequency load shedding'),
-  {
-    name: 'shed_stages',
-    kind: 'int8',
-    unit: '1',
-    description: 'UFLS stages that operated',
-    group: 'frequency',
-  },
-  {
-    name: 'shutdown',
-    kind: 'bool',
-    unit: '1',
-    description: 'the island collapsed during the frequency event',
-    group: 'frequency',
-  },
-  {
-    name: 'shutdown_cause',
-    kind: 'category',
-    unit: '1',
-    description: 'why the island shut down; empty when it did not',
-    group: 'frequency',
-    categories: shutdownCauses,
-  },
-  {
-    name: 'units_tripped',
-    kind: 'int16',
-    unit: '1',
-    description: 'sources lost during the event (protection or the voltage dip)',
-    group: 'frequency',
-  },
-  {
-    name: 'event_status',
-    kind: 'category',
-    unit: '1',
-    description:
-      "frequency simulation status: 'ok', 'shutdown', or 'failed' (the integrator gave up; the row's figures are those reached)",
-    group: 'frequency',
-    categories: eventStatuses,
-  },
+  column('frequency', 'int8', 'shed_stages', '1', 'UFLS stages that operated'),
+  column('frequency', 'bool', 'shutdown', '1', 'the island collapsed during the frequency event'),
+  column(
+    'frequency',
+    'category',
+    'shutdown_cause',
+    '1',
+    'why the island shut down; empty when it did not',
+    shutdownCauses,
+  ),
+  column(
+    'frequency',
+    'int16',
+    'units_tripped',
+    '1',
+    'sources lost during the event (protection or the voltage dip)',
+  ),
+  column(
+    'frequency',
+    'category',
+    'event_status',
+    '1',
+    "frequency simulation status: 'ok', 'shutdown', or 'failed' (the integrator gave up; the row's figures are those reached)",
+    eventStatuses,
+  ),
   // island voltage, damping and limits after the event (src/grid/voltage/island-voltage.ts)
-  {
-    name: 'frequency_violation',
-    kind: 'bool',
-    unit: '1',
-    description:
-      'nadir below or zenith above the frequency limits (limits.frequencyMinHz/MaxHz or their default band), or RoCoF above limits.rocofMaxHzPerS when set',
-    group: 'voltage',
-  },
+  column(
+    'voltage',
+    'bool',
+    'frequency_violation',
+    '1',
+    'nadir below or zenith above the frequency limits (limits.frequencyMinHz/MaxHz or their default band), or RoCoF above limits.rocofMaxHzPerS when set',
+  ),
   f64(
     'voltage',
     'v_min_pu',
     'pu',
     'lowest bus voltage of the settled island (NaN when not assessed)',
   ),
-  {
-    name: 'v_min_bus',
-    kind: 'int16',
-    unit: '1',
-    description: 'index of the lowest-voltage bus in case.network.buses (-1 when not assessed)',
-    group: 'voltage',
-  },
+  column(
+    'voltage',
+    'int16',
+    'v_min_bus',
+    '1',
+    'index of the lowest-voltage bus in case.network.buses (-1 when not assessed)',
+  ),
   f64(
     'voltage',
     'v_max_pu',
     'pu',
     'highest bus voltage of the settled island (NaN when not assessed)',
   ),
-  {
-    name: 'voltage_violation',
-    kind: 'bool',
-    unit: '1',
-    description: 'a bus voltage outside the limits band, or no power-flow solution',
-    group: 'voltage',
-  },
+  column(
+    'voltage',
+    'bool',
+    'voltage_violation',
+    '1',
+    'a bus voltage outside the limits band, or no power-flow solution',
+  ),
   f64(
     'voltage',
     'min_damping_ratio',
@@ -247,15 +233,14 @@ export const allColumns: readonly ColumnSpec[] = [
     '1',
     'load factor at the nose point of the island (loadability; NaN when not assessed)',
   ),
-  {
-    name: 'voltage_status',
-    kind: 'category',
-    unit: '1',
-    description:
-      "power-flow status: 'ok', 'voltage collapse', 'no solution' or 'not assessed' (shut down)",
-    group: 'voltage',
-    categories: voltageStatuses,
-  },
+  column(
+    'voltage',
+    'category',
+    'voltage_status',
+    '1',
+    "power-flow status: 'ok', 'voltage collapse', 'no solution' or 'not assessed' (shut down)",
+    voltageStatuses,
+  ),
   // outage hours (src/energy/outage.ts)
   f64('outage', 'outage_h', 'h', 'how long the grid stayed away'),
   f64(
@@ -274,27 +259,27 @@ export const allColumns: readonly ColumnSpec[] = [
     '1',
     'lowest battery state of charge over the outage (NaN without a battery)',
   ),
-  {
-    name: 'contingencies',
-    kind: 'int16',
-    unit: '1',
-    description: 'unit failures during the outage that triggered a frequency event',
-    group: 'outage',
-  },
-  {
-    name: 'critical_lost',
-    kind: 'bool',
-    unit: '1',
-    description: 'critical load went unserved at some time (shutdown included)',
-    group: 'outage',
-  },
-  {
-    name: 'shutdown_any_time',
-    kind: 'bool',
-    unit: '1',
-    description: 'the island shut down at some time of the outage, the frequency event included',
-    group: 'outage',
-  },
+  column(
+    'outage',
+    'int16',
+    'contingencies',
+    '1',
+    'unit failures during the outage that triggered a frequency event',
+  ),
+  column(
+    'outage',
+    'bool',
+    'critical_lost',
+    '1',
+    'critical load went unserved at some time (shutdown included)',
+  ),
+  column(
+    'outage',
+    'bool',
+    'shutdown_any_time',
+    '1',
+    'the island shut down at some time of the outage, the frequency event included',
+  ),
 ];
 
 /** Writes a non-negative integer below 2^53 into a BigInt64Array without allocating a BigInt. */

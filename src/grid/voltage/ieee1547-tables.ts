@@ -72,304 +72,106 @@ export interface RideThroughTable {
   readonly bands: readonly RideThroughBand[];
 }
 
-const OV2_FIXED: VoltageTripSetting = {
-  name: 'OV2',
-  side: 'over',
-  thresholdPu: 1.2,
-  clearingTimeS: 0.16,
-  rangePu: [1.2, 1.2],
-  rangeTimeS: [0.16, 0.16],
-};
+/** A trip setting; the side follows from the name (OV over, UV under). */
+function trip(
+  name: VoltageTripSetting['name'],
+  thresholdPu: number,
+  clearingTimeS: number,
+  rangePu: readonly [number, number],
+  rangeTimeS: readonly [number, number],
+): VoltageTripSetting {
+  const side = name.startsWith('OV') ? 'over' : 'under';
+  return { name, side, thresholdPu, clearingTimeS, rangePu, rangeTimeS };
+}
+
+// Settings that Tables 11 and 12 share (and OV2, fixed in all three tables).
+const OV2_FIXED = trip('OV2', 1.2, 0.16, [1.2, 1.2], [0.16, 0.16]);
+const OV1_2S = trip('OV1', 1.1, 2, [1.1, 1.2], [1, 13]);
+const UV2_016S = trip('UV2', 0.45, 0.16, [0, 0.5], [0.16, 2]);
 
 /** Default voltage trip settings, IEEE 1547-2018 Tables 11-13 (REFERENCES.md 2.2). */
 export const voltageTripTables: Readonly<Record<RideThroughCategory, VoltageTripTable>> = {
   I: {
     table: 11,
     provenance: 'confirmed (quoted by a third party)',
-    settings: [
-      OV2_FIXED,
-      {
-        name: 'OV1',
-        side: 'over',
-        thresholdPu: 1.1,
-        clearingTimeS: 2,
-        rangePu: [1.1, 1.2],
-        rangeTimeS: [1, 13],
-      },
-      {
-        name: 'UV1',
-        side: 'under',
-        thresholdPu: 0.7,
-        clearingTimeS: 2,
-        rangePu: [0, 0.88],
-        rangeTimeS: [2, 21],
-      },
-      {
-        name: 'UV2',
-        side: 'under',
-        thresholdPu: 0.45,
-        clearingTimeS: 0.16,
-        rangePu: [0, 0.5],
-        rangeTimeS: [0.16, 2],
-      },
-    ],
+    settings: [OV2_FIXED, OV1_2S, trip('UV1', 0.7, 2, [0, 0.88], [2, 21]), UV2_016S],
   },
   II: {
     table: 12,
     provenance: 'confirmed (quoted by a third party)',
-    settings: [
-      { ...OV2_FIXED, rangePu: [1.2, 1.2], rangeTimeS: [0.16, 0.16] },
-      {
-        name: 'OV1',
-        side: 'over',
-        thresholdPu: 1.1,
-        clearingTimeS: 2,
-        rangePu: [1.1, 1.2],
-        rangeTimeS: [1, 13],
-      },
-      {
-        name: 'UV1',
-        side: 'under',
-        thresholdPu: 0.7,
-        clearingTimeS: 10,
-        rangePu: [0, 0.88],
-        rangeTimeS: [2, 21],
-      },
-      {
-        name: 'UV2',
-        side: 'under',
-        thresholdPu: 0.45,
-        clearingTimeS: 0.16,
-        rangePu: [0, 0.5],
-        rangeTimeS: [0.16, 2],
-      },
-    ],
+    settings: [OV2_FIXED, OV1_2S, trip('UV1', 0.7, 10, [0, 0.88], [2, 21]), UV2_016S],
   },
   III: {
     table: 13,
     provenance: 'confirmed (quoted by a third party)',
     settings: [
       OV2_FIXED,
-      {
-        name: 'OV1',
-        side: 'over',
-        thresholdPu: 1.1,
-        clearingTimeS: 13,
-        rangePu: [1.1, 1.2],
-        rangeTimeS: [1, 13],
-      },
-      {
-        name: 'UV1',
-        side: 'under',
-        thresholdPu: 0.88,
-        clearingTimeS: 21,
-        rangePu: [0, 0.88],
-        rangeTimeS: [21, 50],
-      },
-      {
-        name: 'UV2',
-        side: 'under',
-        thresholdPu: 0.5,
-        clearingTimeS: 2,
-        rangePu: [0, 0.5],
-        rangeTimeS: [2, 21],
-      },
+      trip('OV1', 1.1, 13, [1.1, 1.2], [1, 13]),
+      trip('UV1', 0.88, 21, [0, 0.88], [21, 50]),
+      trip('UV2', 0.5, 2, [0, 0.5], [2, 21]),
     ],
   },
 };
 
 const CONFIRMED: Provenance = 'confirmed (quoted by a third party)';
 const MEMORY: Provenance = 'from memory';
+const ALWAYS = Number.POSITIVE_INFINITY;
+
+/** A ride-through band; the minimum time is constant unless an upper-edge time is given. */
+function band(
+  loPu: number,
+  hiPu: number,
+  mode: RideThroughMode,
+  minTimeAtLoS: number,
+  provenance: Provenance,
+  minTimeAtHiS = minTimeAtLoS,
+): RideThroughBand {
+  return { loPu, hiPu, mode, minTimeAtLoS, minTimeAtHiS, provenance };
+}
 
 /**
  * Voltage ride-through bands, IEEE 1547-2018 Tables 14-16 (REFERENCES.md 2.3), lowest band
- * first, covering 0 pu to +Infinity without gaps (an invariant the tests check).
+ * first, covering 0 pu to +Infinity without gaps (an invariant the tests check). Columns:
+ * lower edge pu, upper edge pu, mode, minimum time s, provenance (, time at the upper edge s).
  */
 export const voltageRideThroughTables: Readonly<Record<RideThroughCategory, RideThroughTable>> = {
   I: {
     table: 14,
     bands: [
       // below 0.50 pu: no ride-through requirement recalled (low confidence, from memory)
-      {
-        loPu: 0,
-        hiPu: 0.5,
-        mode: 'cease-to-energize',
-        minTimeAtLoS: 0,
-        minTimeAtHiS: 0,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 0.5,
-        hiPu: 0.7,
-        mode: 'permissive',
-        minTimeAtLoS: 0.16,
-        minTimeAtHiS: 0.16,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 0.7,
-        hiPu: 0.88,
-        mode: 'mandatory',
-        minTimeAtLoS: 0.7,
-        minTimeAtHiS: 0.7,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 0.88,
-        hiPu: 1.1,
-        mode: 'continuous',
-        minTimeAtLoS: Number.POSITIVE_INFINITY,
-        minTimeAtHiS: Number.POSITIVE_INFINITY,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 1.1,
-        hiPu: 1.2,
-        mode: 'permissive',
-        minTimeAtLoS: 0.2,
-        minTimeAtHiS: 0.2,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 1.2,
-        hiPu: Number.POSITIVE_INFINITY,
-        mode: 'cease-to-energize',
-        minTimeAtLoS: 0,
-        minTimeAtHiS: 0,
-        provenance: MEMORY,
-      },
+      band(0, 0.5, 'cease-to-energize', 0, MEMORY),
+      band(0.5, 0.7, 'permissive', 0.16, MEMORY),
+      band(0.7, 0.88, 'mandatory', 0.7, MEMORY),
+      band(0.88, 1.1, 'continuous', ALWAYS, MEMORY),
+      band(1.1, 1.2, 'permissive', 0.2, MEMORY),
+      band(1.2, ALWAYS, 'cease-to-energize', 0, MEMORY),
     ],
   },
   II: {
     table: 15,
     bands: [
-      {
-        loPu: 0,
-        hiPu: 0.3,
-        mode: 'cease-to-energize',
-        minTimeAtLoS: 0,
-        minTimeAtHiS: 0,
-        provenance: CONFIRMED,
-      },
-      {
-        loPu: 0.3,
-        hiPu: 0.45,
-        mode: 'permissive',
-        minTimeAtLoS: 0.16,
-        minTimeAtHiS: 0.16,
-        provenance: CONFIRMED,
-      },
-      {
-        loPu: 0.45,
-        hiPu: 0.65,
-        mode: 'mandatory',
-        minTimeAtLoS: 0.32,
-        minTimeAtHiS: 0.32,
-        provenance: CONFIRMED,
-      },
+      band(0, 0.3, 'cease-to-energize', 0, CONFIRMED),
+      band(0.3, 0.45, 'permissive', 0.16, CONFIRMED),
+      band(0.45, 0.65, 'mandatory', 0.32, CONFIRMED),
       // T = 3 s + 8.7 s/pu (V - 0.65 pu): end points confirmed, the linear law from memory
-      {
-        loPu: 0.65,
-        hiPu: 0.88,
-        mode: 'mandatory',
-        minTimeAtLoS: 3,
-        minTimeAtHiS: 3 + 8.7 * (0.88 - 0.65),
-        provenance: CONFIRMED,
-      },
-      {
-        loPu: 0.88,
-        hiPu: 1.1,
-        mode: 'continuous',
-        minTimeAtLoS: Number.POSITIVE_INFINITY,
-        minTimeAtHiS: Number.POSITIVE_INFINITY,
-        provenance: CONFIRMED,
-      },
-      {
-        loPu: 1.1,
-        hiPu: 1.15,
-        mode: 'mandatory',
-        minTimeAtLoS: 1,
-        minTimeAtHiS: 1,
-        provenance: CONFIRMED,
-      },
-      {
-        loPu: 1.15,
-        hiPu: 1.175,
-        mode: 'mandatory',
-        minTimeAtLoS: 0.5,
-        minTimeAtHiS: 0.5,
-        provenance: CONFIRMED,
-      },
-      {
-        loPu: 1.175,
-        hiPu: 1.2,
-        mode: 'mandatory',
-        minTimeAtLoS: 0.2,
-        minTimeAtHiS: 0.2,
-        provenance: CONFIRMED,
-      },
-      {
-        loPu: 1.2,
-        hiPu: Number.POSITIVE_INFINITY,
-        mode: 'cease-to-energize',
-        minTimeAtLoS: 0,
-        minTimeAtHiS: 0,
-        provenance: CONFIRMED,
-      },
+      band(0.65, 0.88, 'mandatory', 3, CONFIRMED, 3 + 8.7 * (0.88 - 0.65)),
+      band(0.88, 1.1, 'continuous', ALWAYS, CONFIRMED),
+      band(1.1, 1.15, 'mandatory', 1, CONFIRMED),
+      band(1.15, 1.175, 'mandatory', 0.5, CONFIRMED),
+      band(1.175, 1.2, 'mandatory', 0.2, CONFIRMED),
+      band(1.2, ALWAYS, 'cease-to-energize', 0, CONFIRMED),
     ],
   },
   III: {
     table: 16,
     bands: [
       // below 0.50 pu: momentary cessation for at least 1 s (from memory)
-      {
-        loPu: 0,
-        hiPu: 0.5,
-        mode: 'momentary-cessation',
-        minTimeAtLoS: 1,
-        minTimeAtHiS: 1,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 0.5,
-        hiPu: 0.7,
-        mode: 'mandatory',
-        minTimeAtLoS: 10,
-        minTimeAtHiS: 10,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 0.7,
-        hiPu: 0.88,
-        mode: 'mandatory',
-        minTimeAtLoS: 20,
-        minTimeAtHiS: 20,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 0.88,
-        hiPu: 1.1,
-        mode: 'continuous',
-        minTimeAtLoS: Number.POSITIVE_INFINITY,
-        minTimeAtHiS: Number.POSITIVE_INFINITY,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 1.1,
-        hiPu: 1.2,
-        mode: 'momentary-cessation',
-        minTimeAtLoS: 12,
-        minTimeAtHiS: 12,
-        provenance: MEMORY,
-      },
-      {
-        loPu: 1.2,
-        hiPu: Number.POSITIVE_INFINITY,
-        mode: 'cease-to-energize',
-        minTimeAtLoS: 0,
-        minTimeAtHiS: 0,
-        provenance: MEMORY,
-      },
+      band(0, 0.5, 'momentary-cessation', 1, MEMORY),
+      band(0.5, 0.7, 'mandatory', 10, MEMORY),
+      band(0.7, 0.88, 'mandatory', 20, MEMORY),
+      band(0.88, 1.1, 'continuous', ALWAYS, MEMORY),
+      band(1.1, 1.2, 'momentary-cessation', 12, MEMORY),
+      band(1.2, ALWAYS, 'cease-to-energize', 0, MEMORY),
     ],
   },
 };
