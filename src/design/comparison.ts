@@ -35,6 +35,7 @@ import {
   pairedMeanDifference,
   scaleTableToEffectiveSize,
 } from '../stats/paired.js';
+import { levelText } from './designText.js';
 import { type OutcomeContext, type OutcomeDefinition, outcomeDefinitions } from './outcomes.js';
 import { type Pairing, pairScenarios, type ScenarioFrame } from './scenarioFrame.js';
 
@@ -85,8 +86,6 @@ export interface ComparisonResult {
   /** Notes on metrics compared without a paired interval, for stderr. */
   warnings: string[];
 }
-
-const percent = (level: number) => `${Number((level * 100).toPrecision(4))} %`;
 
 /** Per-scenario values of a definition in pairing order (base or variant side). */
 function pairedValues(
@@ -156,7 +155,7 @@ function perEventDifference(
       estimate: d.estimate,
       low: d.low,
       high: d.high,
-      method: `Newcombe square-and-add paired interval (1998, method 10), ${percent(level)}; discordant scenarios ${fmtCount(t.firstOnly)} variant only, ${fmtCount(t.secondOnly)} base only; McNemar exact P = ${pText}`,
+      method: `Newcombe square-and-add paired interval (1998, method 10), ${levelText(level)}; discordant scenarios ${fmtCount(t.firstOnly)} variant only, ${fmtCount(t.secondOnly)} base only; McNemar exact P = ${pText}`,
     };
   }
   const m = pairedMeanDifference(v, b, level, w);
@@ -166,7 +165,7 @@ function perEventDifference(
     estimate: m.estimate,
     low: m.low,
     high: m.high,
-    method: `paired normal interval on per-scenario differences, ${percent(level)}`,
+    method: `paired normal interval on per-scenario differences, ${levelText(level)}`,
   };
 }
 
@@ -233,7 +232,7 @@ function compareMetric(
       difference: m.estimate,
       diffCiLow: m.low,
       diffCiHigh: m.high,
-      method: `paired normal interval on per-scenario differences of lambda x (islanding rates ${lambdaB} and ${lambdaV} per year), ${percent(level)}`,
+      method: `paired normal interval on per-scenario differences of lambda x (islanding rates ${lambdaB} and ${lambdaV} per year), ${levelText(level)}`,
     };
   }
   const d = perEventDifference(def, v, b, pairing, level);

@@ -10,31 +10,46 @@
 import { join } from 'node:path';
 import type { ComparisonRow } from './comparison.js';
 import { type DesignColumn, designTable, writeDesignTable } from './designTable.js';
+import { levelText, type SweepLine } from './designText.js';
 import type { DriversResult } from './drivers.js';
 
 const perRow = 'per row: see the unit column';
+
+/** A text column (unit 1). */
+const textColumn = (
+  name: string,
+  description: string,
+  values: readonly string[],
+): DesignColumn => ({
+  name,
+  kind: 'utf8',
+  unit: '1',
+  description,
+  values,
+});
+
+/** A float64 column. */
+const numberColumn = (
+  name: string,
+  unit: string,
+  description: string,
+  values: ArrayLike<number>,
+): DesignColumn => ({ name, kind: 'float64', unit, description, values });
 
 export function writeComparisonArrow(
   dir: string,
   rows: readonly ComparisonRow[],
   level: number,
 ): string {
-  const pct = `${Number((level * 100).toPrecision(4))} %`;
-  const f = (name: string, description: string, values: number[]): DesignColumn => ({
-    name,
-    kind: 'float64',
-    unit: perRow,
-    description,
-    values,
-  });
+  const pct = levelText(level);
+  const f = (name: string, description: string, values: number[]) =>
+    numberColumn(name, perRow, description, values);
   const table = designTable([
-    {
-      name: 'metric',
-      kind: 'utf8',
-      unit: '1',
-      description: 'summary metric (summary.arrow)',
-      values: rows.map((r) => r.metric),
-    },
+    textColumn(
+      'metric',
+      'summary metric (summary.arrow)',
+      rows.map((r) => r.metric),
+    ),
     f(
       'base',
       'estimate for the base design',
@@ -60,27 +75,21 @@ export function writeComparisonArrow(
       `upper ${pct} confidence limit of the paired difference (NaN: no paired interval)`,
       rows.map((r) => r.diffCiHigh),
     ),
-    {
-      name: 'method',
-      kind: 'utf8',
-      unit: '1',
-      description: 'estimator and interval of the difference',
-      values: rows.map((r) => r.method),
-    },
-    {
-      name: 'unit',
-      kind: 'utf8',
-      unit: '1',
-      description: 'unit of base, variant and difference in this row',
-      values: rows.map((r) => r.unit),
-    },
-    {
-      name: 'label',
-      kind: 'utf8',
-      unit: '1',
-      description: 'the metric in plain words',
-      values: rows.map((r) => r.label),
-    },
+    textColumn(
+      'method',
+      'estimator and interval of the difference',
+      rows.map((r) => r.method),
+    ),
+    textColumn(
+      'unit',
+      'unit of base, variant and difference in this row',
+      rows.map((r) => r.unit),
+    ),
+    textColumn(
+      'label',
+      'the metric in plain words',
+      rows.map((r) => r.label),
+    ),
   ]);
   const path = join(dir, 'comparison.arrow');
   writeDesignTable(path, table);
@@ -88,38 +97,25 @@ export function writeComparisonArrow(
 }
 
 export function writeDriversArrow(dir: string, result: DriversResult): string {
-  const pct = `${Number((result.confidenceLevel * 100).toPrecision(4))} %`;
+  const pct = levelText(result.confidenceLevel);
   const r = result.rows;
-  const f = (name: string, unit: string, description: string, values: number[]): DesignColumn => ({
-    name,
-    kind: 'float64',
-    unit,
-    description,
-    values,
-  });
+  const f = numberColumn;
   const table = designTable([
-    {
-      name: 'outcome',
-      kind: 'utf8',
-      unit: '1',
-      description: 'load_shed or shutdown',
-      values: r.map((x) => x.outcome),
-    },
-    {
-      name: 'driver',
-      kind: 'utf8',
-      unit: '1',
-      description:
-        'month, hour_of_day, soc_band, sources_out (one out / in service pair per source), deficit_band or shutdown_cause',
-      values: r.map((x) => x.driver),
-    },
-    {
-      name: 'stratum',
-      kind: 'utf8',
-      unit: '1',
-      description: 'the stratum (or the cause of shutdown)',
-      values: r.map((x) => x.stratum),
-    },
+    textColumn(
+      'outcome',
+      'load_shed or shutdown',
+      r.map((x) => x.outcome),
+    ),
+    textColumn(
+      'driver',
+      'month, hour_of_day, soc_band, sources_out (one out / in service pair per source), deficit_band or shutdown_cause',
+      r.map((x) => x.driver),
+    ),
+    textColumn(
+      'stratum',
+      'the stratum (or the cause of shutdown)',
+      r.map((x) => x.stratum),
+    ),
     {
       name: 'n_scenarios',
       kind: 'int64',
@@ -181,16 +177,8 @@ export function writeDriversArrow(dir: string, result: DriversResult): string {
   return path;
 }
 
-export interface SweepPoint {
-  valueText: string;
+export interface SweepPoint extends SweepLine {
   value: number | undefined;
-  rows: readonly {
-    metric: string;
-    estimate: number;
-    ciLow: number;
-    ciHigh: number;
-    unit: string;
-  }[];
 }
 
 export function writeSweepArrow(
@@ -199,31 +187,26 @@ export function writeSweepArrow(
   points: readonly SweepPoint[],
   level: number,
 ): string {
-  const pct = `${Number((level * 100).toPrecision(4))} %`;
+  const pct = levelText(level);
   const numeric = points.every((p) => p.value !== undefined);
   const columns: DesignColumn[] = [
-    {
-      name: 'parameter',
-      kind: 'utf8',
-      unit: '1',
-      description: 'the swept case field (override path)',
-      values: points.map(() => parameter),
-    },
+    textColumn(
+      'parameter',
+      'the swept case field (override path)',
+      points.map(() => parameter),
+    ),
     numeric
-      ? {
-          name: 'value',
-          kind: 'float64',
-          unit: 'unit of the case field',
-          description: 'value of the swept field',
-          values: points.map((p) => p.value!),
-        }
-      : {
-          name: 'value',
-          kind: 'utf8',
-          unit: '1',
-          description: 'value of the swept field',
-          values: points.map((p) => p.valueText),
-        },
+      ? numberColumn(
+          'value',
+          'unit of the case field',
+          'value of the swept field',
+          points.map((p) => p.value!),
+        )
+      : textColumn(
+          'value',
+          'value of the swept field',
+          points.map((p) => p.valueText),
+        ),
   ];
   const metrics: { metric: string; unit: string }[] = [];
   for (const p of points)
@@ -232,27 +215,24 @@ export function writeSweepArrow(
     const get = (p: SweepPoint, k: 'estimate' | 'ciLow' | 'ciHigh') =>
       p.rows.find((r) => r.metric === metric)?.[k] ?? Number.NaN;
     columns.push(
-      {
-        name: metric,
-        kind: 'float64',
+      numberColumn(
+        metric,
         unit,
-        description: `${metric} estimate (summary.arrow)`,
-        values: points.map((p) => get(p, 'estimate')),
-      },
-      {
-        name: `${metric}_ci_low`,
-        kind: 'float64',
+        `${metric} estimate (summary.arrow)`,
+        points.map((p) => get(p, 'estimate')),
+      ),
+      numberColumn(
+        `${metric}_ci_low`,
         unit,
-        description: `lower ${pct} confidence limit of ${metric}`,
-        values: points.map((p) => get(p, 'ciLow')),
-      },
-      {
-        name: `${metric}_ci_high`,
-        kind: 'float64',
+        `lower ${pct} confidence limit of ${metric}`,
+        points.map((p) => get(p, 'ciLow')),
+      ),
+      numberColumn(
+        `${metric}_ci_high`,
         unit,
-        description: `upper ${pct} confidence limit of ${metric}`,
-        values: points.map((p) => get(p, 'ciHigh')),
-      },
+        `upper ${pct} confidence limit of ${metric}`,
+        points.map((p) => get(p, 'ciHigh')),
+      ),
     );
   }
   const path = join(dir, 'sweep.arrow');

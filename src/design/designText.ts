@@ -48,7 +48,8 @@ const signed = (x: number) => (x > 0 ? `+${numberText(x)}` : numberText(x));
 
 const isProbability = (r: { metric: string }) => r.metric.startsWith('p_');
 
-const levelText = (level: number) => `${Number((level * 100).toPrecision(4))} %`;
+/** A confidence level as a percentage for labels: 0.95 -> '95 %'. */
+export const levelText = (level: number) => `${Number((level * 100).toPrecision(4))} %`;
 
 /** "shutdown probability 4.1 % -> 1.2 %, difference -2.9 points (95 % CI -3.4 to -2.4)". */
 export function comparisonLine(r: ComparisonRow, level: number): string {
