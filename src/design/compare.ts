@@ -16,25 +16,18 @@ import type { Case } from '../case/schema.js';
 import { CaseError, type CaseProblem, RunError } from '../errors.js';
 import { readManifest } from '../results/manifest.js';
 import { copyArrowToParquet } from '../results/parquet.js';
-import type { ShardSpec } from '../run/plan.js';
-import { type RunOutcome, runAssessment } from '../run/run.js';
+import type { RunOutcome } from '../run/run.js';
 import { type ComparisonResult, compareDesigns, type SummaryLike } from './comparison.js';
 import { writeComparisonArrow } from './designOutputs.js';
 import { readArrowFile } from './designTable.js';
 import { comparisonText } from './designText.js';
 import type { DriversResult } from './drivers.js';
 import type { OutcomeContext } from './outcomes.js';
+import { compareSides, type PairedRunOptions, runStudyDesign } from './pairedRuns.js';
 import { analyseRunDrivers } from './runDrivers.js';
 import { readScenarioFrame } from './scenarioFrame.js';
 
-export interface CompareOptions {
-  outDir: string;
-  scenarios?: number;
-  seed?: number | string;
-  workers?: number;
-  shard?: ShardSpec;
-  parquet?: boolean;
-  signal?: AbortSignal;
+export interface CompareOptions extends PairedRunOptions {
   onProgress?: (design: 'base' | 'variant', done: number, total: number) => void;
   /** Names for the table ("kestrel-island", "kestrel-island with x=1"). */
   baseName: string;
@@ -69,45 +62,23 @@ export async function runComparison(
   variant: LoadedCase,
   opts: CompareOptions,
 ): Promise<CompareOutcome> {
-  const seed = opts.seed ?? base.case.monteCarlo.seed;
-  const scenarios = opts.scenarios ?? base.case.monteCarlo.scenarios;
-  const common = {
-    seed,
-    scenarios,
-    workers: opts.workers,
-    shard: opts.shard,
-    parquet: opts.parquet,
-    signal: opts.signal,
-  };
-  const baseRun = await runAssessment(base, {
-    ...common,
-    outDir: join(opts.outDir, 'base'),
-    onProgress: opts.onProgress && ((d, t) => opts.onProgress?.('base', d, t)),
-  });
+  const progress = (design: 'base' | 'variant') =>
+    opts.onProgress && ((d: number, t: number) => opts.onProgress?.(design, d, t));
+  const baseRun = await runStudyDesign(base, base, opts, 'base', progress('base'));
   const level = baseRun.manifest.confidenceLevel;
   if (baseRun.status === 'partial')
     return stopped(baseRun, undefined, level, 'the base run stopped early');
-  const variantRun = await runAssessment(variant, {
-    ...common,
-    outDir: join(opts.outDir, 'variant'),
-    onProgress: opts.onProgress && ((d, t) => opts.onProgress?.('variant', d, t)),
-  });
+  const variantRun = await runStudyDesign(variant, base, opts, 'variant', progress('variant'));
   if (variantRun.status === 'partial')
     return stopped(baseRun, variantRun, level, 'the variant run stopped early');
   const baseFrame = readScenarioFrame(baseRun.paths.scenarios);
   const variantFrame = readScenarioFrame(variantRun.paths.scenarios);
-  const comparison = compareDesigns({
-    base: baseFrame,
-    variant: variantFrame,
-    baseSummary: baseRun.summary,
-    variantSummary: variantRun.summary,
-    baseFailureDefinition: base.case.monteCarlo.failureDefinition,
-    variantFailureDefinition: variant.case.monteCarlo.failureDefinition,
-    baseRatePerYear: base.case.events.islandingRatePerYear,
-    variantRatePerYear: variant.case.events.islandingRatePerYear,
-    confidenceLevel: level,
-    identicalDesigns: sameDesign(base, variant),
-  });
+  const comparison = compareSides(
+    { loaded: base, frame: baseFrame, summary: baseRun.summary },
+    { loaded: variant, frame: variantFrame, summary: variantRun.summary },
+    level,
+    sameDesign(base, variant),
+  );
   const comparisonPath = writeComparisonArrow(opts.outDir, comparison.rows, level);
   const drivers = {
     base: analyseRunDrivers(baseFrame, join(opts.outDir, 'base'), level),

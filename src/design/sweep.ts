@@ -12,13 +12,13 @@
 import { join } from 'node:path';
 import { type LoadedCase, loadCase } from '../case/load.js';
 import { copyArrowToParquet } from '../results/parquet.js';
-import type { ShardSpec } from '../run/plan.js';
-import { type RunOutcome, runAssessment } from '../run/run.js';
+import type { RunOutcome } from '../run/run.js';
 import { sameDesign } from './compare.js';
-import { type ComparisonRow, compareDesigns } from './comparison.js';
+import type { ComparisonRow } from './comparison.js';
 import { type SweepPoint, writeSweepArrow } from './designOutputs.js';
 import { sweepText } from './designText.js';
 import { findKnee, type KneeResult } from './knee.js';
+import { compareSides, type PairedRunOptions, runStudyDesign } from './pairedRuns.js';
 import { readScenarioFrame } from './scenarioFrame.js';
 import type { SweepSpec } from './sweepValues.js';
 
@@ -39,14 +39,7 @@ export async function loadSweepCases(casePath: string, spec: SweepSpec): Promise
   return out;
 }
 
-export interface SweepOptions {
-  outDir: string;
-  scenarios?: number;
-  seed?: number | string;
-  workers?: number;
-  shard?: ShardSpec;
-  parquet?: boolean;
-  signal?: AbortSignal;
+export interface SweepOptions extends PairedRunOptions {
   onProgress?: (valueIndex: number, done: number, total: number) => void;
 }
 
@@ -77,20 +70,15 @@ export async function runSweep(
   const runs: RunOutcome[] = [];
   const points: SweepPoint[] = [];
   const first = cases[0]!.loaded.case;
-  const seed = opts.seed ?? first.monteCarlo.seed;
-  const scenarios = opts.scenarios ?? first.monteCarlo.scenarios;
   for (let i = 0; i < cases.length; i++) {
     const c = cases[i]!;
-    const run = await runAssessment(c.loaded, {
-      outDir: join(opts.outDir, valueFolder(i, c.valueText)),
-      seed,
-      scenarios,
-      workers: opts.workers,
-      shard: opts.shard,
-      parquet: opts.parquet,
-      signal: opts.signal,
-      onProgress: opts.onProgress && ((d, t) => opts.onProgress?.(i, d, t)),
-    });
+    const run = await runStudyDesign(
+      c.loaded,
+      cases[0]!.loaded,
+      opts,
+      valueFolder(i, c.valueText),
+      opts.onProgress && ((d, t) => opts.onProgress?.(i, d, t)),
+    );
     runs.push(run);
     if (run.status === 'partial') break;
     points.push({ valueText: c.valueText, value: c.value, rows: run.summary });
@@ -119,18 +107,12 @@ function pairRuns(
   runs: readonly RunOutcome[],
   level: number,
 ): ComparisonRow[] {
-  return compareDesigns({
-    base: readScenarioFrame(runs[i]!.paths.scenarios),
-    variant: readScenarioFrame(runs[j]!.paths.scenarios),
-    baseSummary: runs[i]!.summary,
-    variantSummary: runs[j]!.summary,
-    baseFailureDefinition: cases[i]!.loaded.case.monteCarlo.failureDefinition,
-    variantFailureDefinition: cases[j]!.loaded.case.monteCarlo.failureDefinition,
-    baseRatePerYear: cases[i]!.loaded.case.events.islandingRatePerYear,
-    variantRatePerYear: cases[j]!.loaded.case.events.islandingRatePerYear,
-    confidenceLevel: level,
-    identicalDesigns: sameDesign(cases[i]!.loaded, cases[j]!.loaded),
-  }).rows;
+  const side = (k: number) => ({
+    loaded: cases[k]!.loaded,
+    frame: readScenarioFrame(runs[k]!.paths.scenarios),
+    summary: runs[k]!.summary,
+  });
+  return compareSides(side(i), side(j), level, sameDesign(cases[i]!.loaded, cases[j]!.loaded)).rows;
 }
 
 /** The order in which the curve is walked: by value for numbers, as given otherwise. */
