@@ -18,12 +18,12 @@ import {
   type GateRow,
   type RiskGate,
 } from '../../design/riskGate.js';
-import { RunError } from '../../errors.js';
 import { screeningCaution } from '../../results/manifest.js';
-import { type ExitCode, exitCode, InterruptedError, usageError } from '../exit.js';
+import { type ExitCode, exitCode, usageError } from '../exit.js';
 import type { AddCommand } from '../frame.js';
 import type { CliIo } from '../io.js';
 import { addOptions, commonRunOptions } from '../options.js';
+import { stoppedError, untilStopSignal } from '../stop-signal.js';
 
 const stem = (p: string) => basename(p, extname(p));
 
@@ -100,34 +100,27 @@ export const addCompareCommand: AddCommand = (program: Command, frame) => {
       const outDir = options.out
         ? resolve(io.cwd, options.out)
         : defaultCompareDir(basePath!, variantPath, io.cwd);
-      const controller = new AbortController();
-      const stop = () => controller.abort();
-      process.once('SIGINT', stop);
-      process.once('SIGTERM', stop);
       const progress = !options.quiet && !options.json && process.stderr.isTTY === true;
-      let outcome: Awaited<ReturnType<typeof runComparison>>;
-      try {
-        outcome = await runComparison(base, variant, {
-          outDir,
-          scenarios: options.scenarios,
-          seed: options.seed,
-          workers: options.workers,
-          shard: options.shard,
-          parquet: options.parquet,
-          signal: controller.signal,
-          baseName: stem(basePath!),
-          variantName: variantPath
-            ? stem(variantPath)
-            : `${stem(basePath!)} with ${options.set.join(', ')}`,
-          onProgress: progress
-            ? (design, done, total) => io.stderr(`\rholdfast compare: ${design} ${done}/${total}`)
-            : undefined,
-        });
-      } finally {
-        if (progress) io.stderr('\n');
-        process.removeListener('SIGINT', stop);
-        process.removeListener('SIGTERM', stop);
-      }
+      const outcome = await untilStopSignal(
+        (signal) =>
+          runComparison(base, variant, {
+            outDir,
+            scenarios: options.scenarios,
+            seed: options.seed,
+            workers: options.workers,
+            shard: options.shard,
+            parquet: options.parquet,
+            signal,
+            baseName: stem(basePath!),
+            variantName: variantPath
+              ? stem(variantPath)
+              : `${stem(basePath!)} with ${options.set.join(', ')}`,
+            onProgress: progress
+              ? (design, done, total) => io.stderr(`\rholdfast compare: ${design} ${done}/${total}`)
+              : undefined,
+          }),
+        () => progress && io.stderr('\n'),
+      );
       const c = outcome.comparison;
       if (options.json) {
         io.stdout(
@@ -150,11 +143,7 @@ export const addCompareCommand: AddCommand = (program: Command, frame) => {
         io.stdout(`${screeningCaution}\n`);
       }
       for (const w of c?.warnings ?? []) io.stderr(`holdfast: ${w}\n`);
-      if (!c) {
-        const reason = (outcome.variant ?? outcome.base).stopReason;
-        if (reason === 'interrupted') throw new InterruptedError();
-        throw new RunError(`compare stopped: ${reason ?? 'a run ended partial'}`);
-      }
+      if (!c) throw stoppedError('compare', (outcome.variant ?? outcome.base).stopReason);
       return judgeGates(outcome.variant?.summary ?? [], options.failIf, io);
     }),
   );

@@ -9,11 +9,11 @@ import { knownSummaryMetrics } from '../../design/outcomes.js';
 import { anyGateExceeded, checkGateMetrics, evaluateRiskGates } from '../../design/riskGate.js';
 import { loadSweepCases, runSweep } from '../../design/sweep.js';
 import { parseSweepSets } from '../../design/sweepValues.js';
-import { RunError } from '../../errors.js';
 import { screeningCaution } from '../../results/manifest.js';
-import { exitCode, InterruptedError } from '../exit.js';
+import { exitCode } from '../exit.js';
 import type { AddCommand } from '../frame.js';
 import { addOptions, commonRunOptions } from '../options.js';
+import { stoppedError, untilStopSignal } from '../stop-signal.js';
 
 /** Default output folder: results/<case stem>-sweep-<last segment of the path>/. */
 export function defaultSweepDir(casePath: string, path: string, cwd: string): string {
@@ -46,31 +46,24 @@ export const addSweepCommand: AddCommand = (program: Command, frame) => {
       const outDir = options.out
         ? resolve(io.cwd, options.out)
         : defaultSweepDir(casePath!, spec.path, io.cwd);
-      const controller = new AbortController();
-      const stop = () => controller.abort();
-      process.once('SIGINT', stop);
-      process.once('SIGTERM', stop);
       const progress = !options.quiet && !options.json && process.stderr.isTTY === true;
-      let outcome: Awaited<ReturnType<typeof runSweep>>;
-      try {
-        outcome = await runSweep(spec.path, cases, {
-          outDir,
-          scenarios: options.scenarios,
-          seed: options.seed,
-          workers: options.workers,
-          shard: options.shard,
-          parquet: options.parquet,
-          signal: controller.signal,
-          onProgress: progress
-            ? (k, done, total) =>
-                io.stderr(`\rholdfast sweep: value ${k + 1}/${cases.length} ${done}/${total}`)
-            : undefined,
-        });
-      } finally {
-        if (progress) io.stderr('\n');
-        process.removeListener('SIGINT', stop);
-        process.removeListener('SIGTERM', stop);
-      }
+      const outcome = await untilStopSignal(
+        (signal) =>
+          runSweep(spec.path, cases, {
+            outDir,
+            scenarios: options.scenarios,
+            seed: options.seed,
+            workers: options.workers,
+            shard: options.shard,
+            parquet: options.parquet,
+            signal,
+            onProgress: progress
+              ? (k, done, total) =>
+                  io.stderr(`\rholdfast sweep: value ${k + 1}/${cases.length} ${done}/${total}`)
+              : undefined,
+          }),
+        () => progress && io.stderr('\n'),
+      );
       if (options.json)
         io.stdout(
           `${JSON.stringify(
@@ -91,11 +84,8 @@ export const addSweepCommand: AddCommand = (program: Command, frame) => {
           )}\n`,
         );
       else if (!options.quiet) io.stdout(`${outcome.text}${screeningCaution}\n`);
-      if (!outcome.sweepPath) {
-        const reason = outcome.runs[outcome.runs.length - 1]?.stopReason;
-        if (reason === 'interrupted') throw new InterruptedError();
-        throw new RunError(`sweep stopped: ${reason ?? 'a run ended partial'}`);
-      }
+      if (!outcome.sweepPath)
+        throw stoppedError('sweep', outcome.runs[outcome.runs.length - 1]?.stopReason);
       if (options.failIf.length > 0) {
         let exceeded = false;
         for (const p of outcome.points) {
