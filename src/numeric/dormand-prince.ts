@@ -124,7 +124,9 @@ export class DormandPrince {
   private readonly r3: Float64Array;
   private readonly r4: Float64Array;
   private readonly r5: Float64Array;
-  private denseReady = false;
+  /** Dense-output coefficients are built per component on demand: stamp = step they belong to. */
+  private readonly denseStamp: Int32Array;
+  private stepId = 1;
   /** Error norm of the last accepted step (PI controller memory), floored at 1e-4. */
   private errOld = 1e-4;
 
@@ -145,6 +147,7 @@ export class DormandPrince {
     this.r3 = new Float64Array(n);
     this.r4 = new Float64Array(n);
     this.r5 = new Float64Array(n);
+    this.denseStamp = new Int32Array(n);
   }
 
   /**
@@ -158,7 +161,7 @@ export class DormandPrince {
     this.evaluations++;
     if (firstStepS > 0) this.nextHS = firstStepS;
     this.errOld = 1e-4;
-    this.denseReady = false;
+    this.stepId++;
   }
 
   /**
@@ -248,40 +251,38 @@ export class DormandPrince {
     this.t1 = this.t0 + h;
     this.nextHS = next;
     this.steps++;
-    this.denseReady = false;
+    this.stepId++;
   }
 
   private restoreAfterFailure(): void {
     this.y1.set(this.y0);
     this.t1 = this.t0;
+    this.stepId++;
   }
 
-  /** Builds the dense-output coefficients of the last accepted step (once per step, on demand). */
-  private prepareDense(): void {
-    const n = this.n;
+  /** Builds the dense-output coefficients of component i for the last accepted step. */
+  private prepareDense(i: number): void {
     const h = this.hS;
-    for (let i = 0; i < n; i++) {
-      const diff = this.y1[i]! - this.y0[i]!;
-      const bspl = h * this.k1[i]! - diff;
-      this.r1[i] = this.y0[i]!;
-      this.r2[i] = diff;
-      this.r3[i] = bspl;
-      this.r4[i] = diff - h * this.k7[i]! - bspl;
-      this.r5[i] =
-        h *
-        (D1 * this.k1[i]! +
-          D3 * this.k3[i]! +
-          D4 * this.k4[i]! +
-          D5 * this.k5[i]! +
-          D6 * this.k6[i]! +
-          D7 * this.k7[i]!);
-    }
-    this.denseReady = true;
+    const diff = this.y1[i]! - this.y0[i]!;
+    const bspl = h * this.k1[i]! - diff;
+    this.r1[i] = this.y0[i]!;
+    this.r2[i] = diff;
+    this.r3[i] = bspl;
+    this.r4[i] = diff - h * this.k7[i]! - bspl;
+    this.r5[i] =
+      h *
+      (D1 * this.k1[i]! +
+        D3 * this.k3[i]! +
+        D4 * this.k4[i]! +
+        D5 * this.k5[i]! +
+        D6 * this.k6[i]! +
+        D7 * this.k7[i]!);
+    this.denseStamp[i] = this.stepId;
   }
 
   /** Component `i` of the dense output at theta in [0, 1] of the last accepted step. */
   interpolateComponent(i: number, theta: number): number {
-    if (!this.denseReady) this.prepareDense();
+    if (this.denseStamp[i] !== this.stepId) this.prepareDense(i);
     const s = 1 - theta;
     return (
       this.r1[i]! +
@@ -291,7 +292,7 @@ export class DormandPrince {
 
   /** d/dtheta of component `i` of the dense output (divide by h for d/dt). */
   interpolateComponentSlope(i: number, theta: number): number {
-    if (!this.denseReady) this.prepareDense();
+    if (this.denseStamp[i] !== this.stepId) this.prepareDense(i);
     const s = 1 - theta;
     return (
       this.r2[i]! +
@@ -303,12 +304,13 @@ export class DormandPrince {
 
   /** The whole state at theta in [0, 1] of the last accepted step, into `out`. */
   interpolate(theta: number, out: Float64Array): void {
-    if (!this.denseReady) this.prepareDense();
     const s = 1 - theta;
-    for (let i = 0; i < this.n; i++)
+    for (let i = 0; i < this.n; i++) {
+      if (this.denseStamp[i] !== this.stepId) this.prepareDense(i);
       out[i] =
         this.r1[i]! +
         theta * (this.r2[i]! + s * (this.r3[i]! + theta * (this.r4[i]! + s * this.r5[i]!)));
+    }
   }
 
   /** Initial step guess, HNW I sec. II.4 (simplified): h = 0.01 ||y|| / ||f||, bounded. */
