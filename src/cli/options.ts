@@ -6,6 +6,7 @@
  * listing every bad option (exit 2). No side effects: tested in-process.
  */
 import type { Command } from 'commander';
+import type { PairedRunOptions } from '../design/pairedRuns.js';
 import { parseRiskGate, type RiskGate } from '../design/riskGate.js';
 import { CaseError, type CaseProblem, describeFound } from '../errors.js';
 
@@ -317,4 +318,14 @@ export function parseOptions(raw: Readonly<Record<string, unknown>>): CliOptions
   }
   if (problems.length > 0) throw new CaseError(problems);
   return options;
+}
+
+/** The run settings a paired study (compare, sweep) passes to every one of its runs. */
+export function pairedRunOptions(
+  options: CliOptions,
+  outDir: string,
+  signal: AbortSignal,
+): PairedRunOptions {
+  const { scenarios, seed, workers, shard, parquet } = options;
+  return { outDir, scenarios, seed, workers, shard, parquet, signal };
 }

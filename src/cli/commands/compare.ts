@@ -22,7 +22,7 @@ import { screeningCaution } from '../../results/manifest.js';
 import { type ExitCode, exitCode, usageError } from '../exit.js';
 import type { AddCommand } from '../frame.js';
 import type { CliIo } from '../io.js';
-import { addOptions, commonRunOptions } from '../options.js';
+import { addOptions, commonRunOptions, pairedRunOptions } from '../options.js';
 import { stoppedError, untilStopSignal } from '../stop-signal.js';
 
 const stem = (p: string) => basename(p, extname(p));
@@ -104,13 +104,7 @@ export const addCompareCommand: AddCommand = (program: Command, frame) => {
       const outcome = await untilStopSignal(
         (signal) =>
           runComparison(base, variant, {
-            outDir,
-            scenarios: options.scenarios,
-            seed: options.seed,
-            workers: options.workers,
-            shard: options.shard,
-            parquet: options.parquet,
-            signal,
+            ...pairedRunOptions(options, outDir, signal),
             baseName: stem(basePath!),
             variantName: variantPath
               ? stem(variantPath)

@@ -12,7 +12,7 @@ import { parseSweepSets } from '../../design/sweepValues.js';
 import { screeningCaution } from '../../results/manifest.js';
 import { exitCode } from '../exit.js';
 import type { AddCommand } from '../frame.js';
-import { addOptions, commonRunOptions } from '../options.js';
+import { addOptions, commonRunOptions, pairedRunOptions } from '../options.js';
 import { stoppedError, untilStopSignal } from '../stop-signal.js';
 
 /** Default output folder: results/<case stem>-sweep-<last segment of the path>/. */
@@ -50,13 +50,7 @@ export const addSweepCommand: AddCommand = (program: Command, frame) => {
       const outcome = await untilStopSignal(
         (signal) =>
           runSweep(spec.path, cases, {
-            outDir,
-            scenarios: options.scenarios,
-            seed: options.seed,
-            workers: options.workers,
-            shard: options.shard,
-            parquet: options.parquet,
-            signal,
+            ...pairedRunOptions(options, outDir, signal),
             onProgress: progress
               ? (k, done, total) =>
                   io.stderr(`\rholdfast sweep: value ${k + 1}/${cases.length} ${done}/${total}`)
