@@ -12,6 +12,7 @@ import {
   writeSync,
 } from 'node:fs';
 import { CaseError } from '../errors.js';
+import type { StoppingRecord } from '../run/stopping-rule.js';
 import type { ColumnGroup } from './columns.js';
 
 export interface RunManifest {
@@ -46,12 +47,8 @@ export interface RunManifest {
   nominalFrequencyHz: number;
   plan: string;
   columnGroups: ColumnGroup[];
-  untilRelError: {
-    target: number;
-    headlineMetric: string;
-    checks: number;
-    checkpoints: number[];
-  } | null;
+  /** The `--until-rel-error` pilot and plan (src/run/stopping-rule.ts), or null. */
+  untilRelError: StoppingRecord | null;
   /** Shards merged into this folder (merge only). */
   mergedFrom?: string[];
   caution: string;

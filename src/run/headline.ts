@@ -3,6 +3,7 @@
  * one-line caution that these are screening estimates.
  */
 import { screeningCaution } from '../results/manifest.js';
+import { type StoppingRecord, stoppingRuleSentence } from './stopping-rule.js';
 import type { SummaryRow } from './summary-feed.js';
 
 function pct(x: number): string {
@@ -41,6 +42,8 @@ export function headlineText(
     status: string;
     dir: string;
     failureDefinition?: string;
+    /** run.json's untilRelError: says whether the planned run met the target. */
+    stoppingRule?: StoppingRecord | null;
   },
 ): string {
   const level = `${Math.round(info.confidenceLevel * 1000) / 10} %`;
@@ -56,6 +59,7 @@ export function headlineText(
     const r = byMetric.get(metric);
     if (r) lines.push(say(r, level));
   }
+  if (info.stoppingRule) lines.push(stoppingRuleSentence(info.stoppingRule));
   if (rows.length === 0)
     lines.push('No summary metrics: the statistics module is not part of this build.');
   lines.push(screeningCaution);

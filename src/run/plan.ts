@@ -1,5 +1,5 @@
 /**
- * Which scenario ids a run computes, in which tasks, and when the stopping rule looks.
+ * Which scenario ids a run computes, in which tasks, and the stages of the stopping rule's pilot.
  *
  * Ids are cut on a fixed grid of `block` ids. Shards are contiguous runs of whole
  * blocks, task batches are whole multiples of the block, and the summary is fed one block at a
@@ -15,7 +15,7 @@ const minFeedBlock = 100;
 /**
  * The feed block of a case: the smallest multiple of the sampling plan's block (plan.ts in
  * src/sample: 1, 12, 288 or 256 ids) that is at least 100 ids. Whole plan blocks keep the
- * weighted estimators unbiased at every shard boundary and stopping-rule checkpoint.
+ * weighted estimators unbiased at every shard boundary and pilot stage.
  */
 export function feedBlockOf(plan: PlanKind): number {
   const b = planBlockSize[plan];
@@ -61,12 +61,11 @@ export function alignBatchSize(requested: number, block: number): number {
 }
 
 /**
- * Stopping-rule checkpoints for `--until-rel-error`: the counts at which the rule looks,
- * doubling from `first` up to `cap` (the cap is the last checkpoint). Looking only at counts
- * fixed in advance, a geometric sequence with about log2(cap/first) looks, keeps the number
- * of looks small; the run reports how many it made.
+ * Counts doubling from `first` (rounded up to whole blocks) up to `cap` (the last count): the
+ * stages of the `--until-rel-error` pilot (stopping-rule.ts). Whole blocks keep every stage a
+ * valid design of the sampling plan.
  */
-export function checkpoints(first: number, cap: number, block: number): number[] {
+export function doublingCounts(first: number, cap: number, block: number): number[] {
   const out: number[] = [];
   let n = Math.max(block, Math.ceil(first / block) * block);
   while (n < cap) {

@@ -31,17 +31,27 @@ import { exceedanceColumns, writeSmallTable, writeSummaryArrow } from '../result
 import { compileKernel, type KernelFaults, kernelGroups } from './kernel.js';
 import {
   alignBatchSize,
-  checkpoints,
   defaultBatchSize,
   feedBlockOf,
   type ShardSpec,
   shardRange,
 } from './plan.js';
 import {
+  countHeadlineEvents,
+  type PilotOutcome,
+  pilotFirstScenarios,
+  pilotSeed,
+  plannedScenarioCount,
+  runPilot,
+  type StoppingRecord,
+  targetMet,
+} from './stopping-rule.js';
+import {
   createSummary,
   feedSummary,
   type SummaryRow,
   type SummarySink,
+  summaryMetricNames,
   summarySettings,
 } from './summary-feed.js';
 import { type BatchTask, compileFailurePrefix, type WorkerSetup } from './worker.js';
@@ -58,10 +68,13 @@ export interface RunOptions {
   shard?: ShardSpec;
   /** Continue a partial run in outDir. */
   resume?: boolean;
-  /** Stop once the headline interval half-width is below this fraction of its estimate. */
+  /**
+   * Size the run for a headline half-width of this fraction of its estimate: an independent
+   * pilot fixes the scenario count, capped at `scenarios` (stopping-rule.ts).
+   */
   untilRelError?: number;
-  /** First checkpoint of untilRelError (default 1000, rounded up to whole feed blocks). */
-  firstCheckpoint?: number;
+  /** First pilot stage of untilRelError (default 1000, rounded up to whole feed blocks). */
+  pilotFirstScenarios?: number;
   /** Scenarios per task; rounded to a multiple of the feed block (100). */
   batchSize?: number;
   /** Also write Parquet copies (scenarios.parquet, summary.parquet). */
@@ -86,8 +99,7 @@ export interface RunOutcome {
 }
 
 /** The headline metric of the stopping rule: the failure probability when the summary has it. */
-export function headlineMetric(sink: SummarySink): string {
-  const names = sink.rows().map((r) => r.metric);
+export function headlineMetric(names: readonly string[]): string {
   return names.includes('p_failure') ? 'p_failure' : 'p_shutdown';
 }
 
@@ -115,6 +127,29 @@ export function feedBatch(
     feedSummary(sink, specs, b, from, Math.min(block, b.count - from));
 }
 
+/** The untilRelError record of run.json: the pilot, the planned N and whether X was met. */
+function stoppingRecord(
+  relError: number,
+  headline: string,
+  pilot: PilotOutcome | null,
+  end: number,
+  cap: number,
+  complete: boolean,
+  sink: SummarySink,
+): StoppingRecord {
+  const h = complete ? sink.halfWidth(headline) : null;
+  return {
+    design: 'pilot-then-fixed',
+    target: relError,
+    headlineMetric: headline,
+    pilot,
+    plannedScenarios: pilot ? end : null,
+    capped: pilot ? end === cap : null,
+    achievedHalfWidth: h ? h.halfWidth : null,
+    targetMet: h ? targetMet(h.estimate, h.halfWidth, relError) : null,
+  };
+}
+
 /** Runs the assessment of a parsed case; see docs/runner.md for the pipeline. */
 export async function runAssessment(input: LoadedCase, opts: RunOptions): Promise<RunOutcome> {
   const started = process.hrtime.bigint();
@@ -123,18 +158,18 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   const total = opts.scenarios ?? c.monteCarlo.scenarios;
   const workers = Math.max(1, opts.workers ?? availableParallelism());
   const block = feedBlockOf(c.monteCarlo.plan);
-  const batchSize = alignBatchSize(
-    opts.batchSize ?? Math.min(defaultBatchSize, Math.ceil(total / (16 * workers))),
-    block,
-  );
   if (opts.untilRelError !== undefined && opts.shard && opts.shard.count > 1)
     throw CaseError.single(
       '--until-rel-error',
-      'cannot be combined with --shard (each shard would stop at its own count)',
+      'cannot be combined with --shard (the pilot sizes one run over ids from 0; shard a fixed --scenarios count instead)',
     );
-  const { start, end } = shardRange(total, block, opts.shard);
+  const { start, end: shardEnd } = shardRange(total, block, opts.shard);
+  // under untilRelError the end is the planned count N of the pilot (or of the earlier run.json)
+  let end = shardEnd;
   const groups = kernelGroups();
   const specs = columnsOf(groups);
+  const settings = summarySettings(c);
+  const headline = headlineMetric(summaryMetricNames(settings, specs));
   const contentSha = caseContentSha256(input);
   const dir = opts.outDir;
   const paths = {
@@ -145,17 +180,11 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     exceedance: join(dir, 'exceedance.arrow'),
   };
 
-  const sink = createSummary(summarySettings(c));
+  const sink = createSummary(settings);
   const encoder = new BatchEncoder(specs);
-  let plannedChecks =
-    opts.untilRelError === undefined
-      ? [end]
-      : checkpoints(opts.firstCheckpoint ?? 1000, end, block);
 
   // --resume: check the earlier manifest, then copy its rows (and summary updates) first
   let done = 0;
-  let checkIndex = 0;
-  let checks = 0;
   const earlier = opts.resume && existsSync(paths.manifest) ? readManifest(paths.manifest) : null;
   if (opts.resume && !earlier)
     throw CaseError.single('--resume', `expected an earlier run in ${dir}, found no run.json`);
@@ -163,8 +192,15 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     const mismatch: string[] = [];
     if (earlier.caseContentSha256 !== contentSha) mismatch.push('case (file or --set overrides)');
     if (String(earlier.seed) !== String(seed)) mismatch.push('seed');
-    if (earlier.idStart !== start || earlier.idEnd !== end)
+    // a run sized by the stopping rule ends at its planned N (the pilot is not redone)
+    const rule = earlier.untilRelError;
+    if (rule && rule.design !== 'pilot-then-fixed')
+      mismatch.push('stopping rule (run.json of an older version: start afresh)');
+    const plannedEnd = rule?.plannedScenarios ?? null;
+    if (earlier.idStart !== start || (plannedEnd === null && earlier.idEnd !== end))
       mismatch.push('scenario range or shard');
+    if (opts.untilRelError !== undefined && earlier.scenariosRequested !== total)
+      mismatch.push('--scenarios (the cap the planned count was fitted under)');
     if (earlier.columnGroups.join() !== groups.join()) mismatch.push('model set of this build');
     if ((earlier.untilRelError?.target ?? null) !== (opts.untilRelError ?? null))
       mismatch.push('--until-rel-error');
@@ -173,42 +209,89 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
         '--resume',
         `the earlier run in ${dir} differs in: ${mismatch.join(', ')}`,
       );
-    // the looks of the stopping rule are those planned by the earlier run
-    if (earlier.untilRelError) plannedChecks = earlier.untilRelError.checkpoints;
   }
+  let pilot: PilotOutcome | null = earlier?.untilRelError?.pilot ?? null;
+  if (pilot && earlier?.untilRelError?.plannedScenarios != null)
+    end = earlier.untilRelError.plannedScenarios;
 
   // compile once here too: a case the models reject is bad input (exit 2) before anything is
   // written, rather than a failure in every worker
   compileKernel(c, input.dir, { seed });
+  let failure: unknown = null;
+  if (opts.untilRelError !== undefined && pilot === null) {
+    try {
+      pilot = await pilotRun();
+      // N depends on the pilot alone: the main sample cannot move it (stopping-rule.ts)
+      if (pilot)
+        end = plannedScenarioCount(pilot, {
+          relError: opts.untilRelError,
+          confidenceLevel: c.monteCarlo.confidenceLevel,
+          cap: shardEnd,
+          block,
+        });
+    } catch (err) {
+      failure =
+        err instanceof RunError ? err : new RunError(`pilot: ${String(err)}`, { cause: err });
+    }
+  }
+  const batchSize = alignBatchSize(
+    opts.batchSize ?? Math.min(defaultBatchSize, Math.ceil((end - start) / (16 * workers))),
+    block,
+  );
   mkdirSync(dir, { recursive: true });
   const scenarioSink = new ArrowFileSink(paths.scenarios, encoder.schema);
   let written = 0;
   let stopReason: string | null = null;
-  let failure: unknown = null;
-  let target = opts.untilRelError === undefined ? end : Math.min(end, plannedChecks[0]!);
-  let satisfied = false;
 
-  const checkRule = (): void => {
-    // called when the rows written reach `target`, a checkpoint fixed before the run: the only
-    // moments the stopping rule looks (untilRelError excludes shards, so ids start at 0)
-    if (opts.untilRelError === undefined || satisfied) return;
-    checks++;
-    const h = sink.halfWidth(headlineMetric(sink));
-    if (h.estimate > 0 && h.halfWidth <= opts.untilRelError * h.estimate) satisfied = true;
-    else if (checkIndex + 1 < plannedChecks.length) {
-      checkIndex++;
-      target = Math.min(end, plannedChecks[checkIndex]!);
+  /** The pilot (stopping-rule.ts): the same case and ids from 0 on the pilot seed, rows dropped. */
+  async function pilotRun(): Promise<PilotOutcome | null> {
+    const { filename, execArgv } = workerFile();
+    const setup: WorkerSetup = { case: c, caseDir: input.dir, seed: pilotSeed(seed) };
+    const pool = new Piscina({
+      filename,
+      execArgv,
+      workerData: setup,
+      minThreads: workers,
+      maxThreads: workers,
+    });
+    const pilotSink = createSummary(settings);
+    const first = opts.pilotFirstScenarios ?? pilotFirstScenarios;
+    const runOnce = (task: BatchTask) => pool.run(task) as Promise<ColumnBatch>;
+    try {
+      const outcome = await runPilot({
+        // retried once, as the main run's batches
+        runBatch: (task) => runOnce(task).catch(() => runOnce(task)),
+        feed: (b) => feedBatch(pilotSink, specs, b, block),
+        countEvents: (b) => countHeadlineEvents(b, headline, settings.failureDefinition),
+        headline: () => {
+          const row = pilotSink.rows().find((r) => r.metric === headline);
+          return { estimate: row?.estimate ?? 0, lowerBound: row?.ciLow ?? 0 };
+        },
+        cap: shardEnd,
+        block,
+        first,
+        batchSize: alignBatchSize(
+          Math.min(defaultBatchSize, Math.ceil(first / (4 * workers))),
+          block,
+        ),
+        window: workers * 4,
+        seed: pilotSeed(seed),
+        signal: opts.signal,
+      });
+      return outcome;
+    } finally {
+      await pool.destroy();
     }
-  };
+  }
 
   try {
+    if (failure !== null) throw failure;
     if (earlier) {
       for await (const rb of readRecordBatches(paths.scenarios)) {
         const b = toColumnBatch(rb, specs, paths.scenarios);
         await scenarioSink.write(encoder.encode(b));
         feedBatch(sink, specs, b, block);
         done += b.count;
-        if (start + done === target) checkRule(); // the same looks as the original run
       }
       written = done;
     }
@@ -270,11 +353,11 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
       let batchesWritten = 0;
       return new Promise<void>((resolve) => {
         const stopping = () =>
-          failure !== null || stopReason !== null || satisfied || opts.signal?.aborted === true;
+          failure !== null || stopReason !== null || opts.signal?.aborted === true;
         const fill = () => {
           if (opts.signal?.aborted && stopReason === null) stopReason = 'interrupted';
-          while (!stopping() && inFlight + ready.size < window && next < target) {
-            const task: BatchTask = { firstId: next, count: Math.min(batchSize, target - next) };
+          while (!stopping() && inFlight + ready.size < window && next < end) {
+            const task: BatchTask = { firstId: next, count: Math.min(batchSize, end - next) };
             next += task.count;
             inFlight++;
             runWithRetry(task).then(
@@ -306,7 +389,6 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
               opts.onProgress?.(written, end - start);
               if (opts.stopAfterBatches !== undefined && batchesWritten >= opts.stopAfterBatches)
                 stopReason ??= 'interrupted';
-              if (start + written === target) checkRule();
             }
           } catch (err) {
             failure ??= err;
@@ -321,7 +403,9 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     failure ??= err;
   }
 
-  const complete = failure === null && (satisfied || start + written === end);
+  // an interrupt during the pilot leaves no plan: the run is partial and resume reruns the pilot
+  const planned = opts.untilRelError === undefined || pilot !== null;
+  const complete = failure === null && planned && start + written === end;
   // a failure after valid rows still leaves a readable, partial file
   await scenarioSink.close();
   const wallSeconds = Number(process.hrtime.bigint() - started) / 1e9;
@@ -357,12 +441,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
     untilRelError:
       opts.untilRelError === undefined
         ? null
-        : {
-            target: opts.untilRelError,
-            headlineMetric: headlineMetric(sink),
-            checks,
-            checkpoints: plannedChecks,
-          },
+        : stoppingRecord(opts.untilRelError, headline, pilot, end, shardEnd, complete, sink),
     caution: screeningCaution,
   };
   if (opts.parquet && failure === null) {

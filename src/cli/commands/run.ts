@@ -102,6 +102,7 @@ export const addRunCommand: AddCommand = (program: Command, frame) => {
             scenarios: outcome.manifest.scenarioCount,
             confidenceLevel: outcome.manifest.confidenceLevel,
             failureDefinition: outcome.manifest.failureDefinition,
+            stoppingRule: outcome.manifest.untilRelError,
             status: outcome.status,
             dir: outDir,
           }),
