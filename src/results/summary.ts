@@ -64,6 +64,19 @@ class IndicatorState {
   readonly sumW = new ExactSum();
   readonly sumW2 = new ExactSum();
   readonly sumWEvent = new ExactSum();
+
+  /** One row with the event, of weight w (a zero weight counts the row, adds no weight). */
+  addEvent(w: number): void {
+    this.events++;
+    if (w !== 0) this.sumWEvent.add(w);
+  }
+
+  /** Closes a batch of `count` rows whose weight sums are batchW and batchW2. */
+  addRows(count: number, batchW: ExactSum, batchW2: ExactSum): void {
+    this.rows += count;
+    this.sumW.addSum(batchW);
+    this.sumW2.addSum(batchW2);
+  }
 }
 
 class MomentState {
@@ -156,15 +169,9 @@ export class SummaryAccumulator {
     const s = this.indicator(name);
     for (let i = 0; i < count; i++) {
       const v = values[i]!;
-      if (positiveOnly ? v > 0 : v !== 0) {
-        s.events++;
-        const w = weights ? weights[i]! : 1;
-        if (w !== 0) s.sumWEvent.add(w);
-      }
+      if (positiveOnly ? v > 0 : v !== 0) s.addEvent(weights ? weights[i]! : 1);
     }
-    s.rows += count;
-    s.sumW.addSum(this.batchW);
-    s.sumW2.addSum(this.batchW2);
+    s.addRows(count, this.batchW, this.batchW2);
   }
 
   /** failure = shutdown, or shutdown || critical_lost (per the failure definition). */
@@ -180,15 +187,10 @@ export class SummaryAccumulator {
     if (wantsCritical && !critical) this.failureWithoutCriticalRows += count;
     const s = this.indicator('failure');
     for (let i = 0; i < count; i++) {
-      if (shutdown[i]! !== 0 || (critical !== undefined && critical[i]! !== 0)) {
-        s.events++;
-        const w = weights ? weights[i]! : 1;
-        if (w !== 0) s.sumWEvent.add(w);
-      }
+      if (shutdown[i]! !== 0 || (critical !== undefined && critical[i]! !== 0))
+        s.addEvent(weights ? weights[i]! : 1);
     }
-    s.rows += count;
-    s.sumW.addSum(this.batchW);
-    s.sumW2.addSum(this.batchW2);
+    s.addRows(count, this.batchW, this.batchW2);
   }
 
   private addMoment(
