@@ -48,6 +48,8 @@ export class EventResult {
   /** Accepted integrator steps and right-hand-side evaluations (cost counters). */
   steps = 0;
   rhsEvaluations = 0;
+  /** Steps rejected by the error test (retried smaller). */
+  rejectedSteps = 0;
 
   constructor(
     readonly sourceCount: number,
@@ -88,5 +90,6 @@ export class EventResult {
     this.unitsTripped = 0;
     this.steps = 0;
     this.rhsEvaluations = 0;
+    this.rejectedSteps = 0;
   }
 }

@@ -486,4 +486,5 @@ function finish(e: Engine, tS: number, out: EventResult): void {
   out.unitsTripped = tripped;
   out.steps = e.integ.steps;
   out.rhsEvaluations = e.integ.evaluations;
+  out.rejectedSteps = e.integ.rejected;
 }
