@@ -5,7 +5,7 @@
  * carries metadata"), and the file is written to a temporary name and renamed when complete, so a
  * reader never sees half a file.
  */
-import { mkdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
 import { dirname } from 'node:path';
 import {
   type Data,
@@ -23,6 +23,7 @@ import {
   vectorFromArray,
 } from 'apache-arrow';
 import { RunError } from '../errors.js';
+import { writeFileAtomic } from '../results/manifest.js';
 
 export type DesignColumn =
   | { name: string; kind: 'utf8'; unit: string; description: string; values: readonly string[] }
@@ -66,12 +67,10 @@ export function designTable(columns: readonly DesignColumn[]): Table {
   return new Table(schema, [batch]);
 }
 
-/** Writes the table as an Arrow IPC file: to `path.tmp-<pid>` first, then renamed onto `path`. */
+/** Writes the table as an Arrow IPC file, atomically (the results' writeFileAtomic: temp, fsync, rename). */
 export function writeDesignTable(path: string, table: Table): void {
   mkdirSync(dirname(path), { recursive: true });
-  const temporary = `${path}.tmp-${process.pid}`;
-  writeFileSync(temporary, tableToIPC(table, 'file'));
-  renameSync(temporary, path);
+  writeFileAtomic(path, tableToIPC(table, 'file'));
 }
 
 /** Reads an Arrow IPC file whole (the design tables and test fixtures are small). */
