@@ -220,7 +220,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   let failure: unknown = null;
   if (opts.untilRelError !== undefined && pilot === null) {
     try {
-      pilot = await pilotRun();
+      pilot = await pilotRun(opts.untilRelError);
       // N depends on the pilot alone: the main sample cannot move it (stopping-rule.ts)
       if (pilot)
         end = plannedScenarioCount(pilot, {
@@ -244,7 +244,7 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
   let stopReason: string | null = null;
 
   /** The pilot (stopping-rule.ts): the same case and ids from 0 on the pilot seed, rows dropped. */
-  async function pilotRun(): Promise<PilotOutcome | null> {
+  async function pilotRun(relError: number): Promise<PilotOutcome | null> {
     const { filename, execArgv } = workerFile();
     const setup: WorkerSetup = { case: c, caseDir: input.dir, seed: pilotSeed(seed) };
     const pool = new Piscina({
@@ -265,9 +265,15 @@ export async function runAssessment(input: LoadedCase, opts: RunOptions): Promis
         countEvents: (b) => countHeadlineEvents(b, headline, settings.failureDefinition),
         headline: () => {
           const row = pilotSink.rows().find((r) => r.metric === headline);
-          return { estimate: row?.estimate ?? 0, lowerBound: row?.ciLow ?? 0 };
+          return {
+            estimate: row?.estimate ?? 0,
+            lowerBound: row?.ciLow ?? 0,
+            upperBound: row?.ciHigh ?? 1,
+          };
         },
         cap: shardEnd,
+        relError,
+        confidenceLevel: c.monteCarlo.confidenceLevel,
         block,
         first,
         batchSize: alignBatchSize(

@@ -4,8 +4,9 @@
  * 1. Pilot. The same case on scenario ids 0, 1, ... but with the seed `${seed}/pilot`, so its
  *    random streams (keyed by (seed, id), src/numeric/random-stream.ts) share nothing with the
  *    main run's. It grows in doubling stages (first, 2 first, 4 first, ... whole feed blocks, up to
- *    the cap) until it has seen at least `pilotMinEvents` headline events or reached the cap. Its
- *    rows are summarised and dropped, never written.
+ *    the cap) until it has seen at least `pilotMinEvents` headline events, reached the cap, or
+ *    its upper bound already plans the cap (`pilotHasEnough`). Its rows are summarised and
+ *    dropped, never written.
  * 2. Planned size. The half-width of a proportion interval at n scenarios is about
  *    h = z sqrt(p (1 - p) / n); asking h <= X p gives
  *      N = z^2 (1 - p) / (X^2 p),
@@ -59,6 +60,8 @@ export interface PilotOutcome {
   estimate: number;
   /** Lower end of the pilot's interval for it, at the case's confidence level. */
   lowerBound: number;
+  /** Upper end of that interval (it may end the pilot early: `pilotHasEnough`). */
+  upperBound: number;
 }
 
 /** The stopping rule's record in run.json (`untilRelError`). */
@@ -84,9 +87,20 @@ export function pilotStages(first: number, cap: number, block: number): number[]
   return doublingCounts(first, cap, block);
 }
 
-/** Whether the pilot may stop after `scenarios` with `events` seen. */
-export function pilotHasEnough(events: number, scenarios: number, cap: number): boolean {
-  return events >= pilotMinEvents || scenarios >= cap;
+/**
+ * Whether the pilot may stop: `pilotMinEvents` seen, the cap reached, or the cap certain
+ * enough: even the pilot's upper bound p_U plans at least the cap (N(p_U) >= cap), so N(p_L)
+ * is the cap now and more pilot would move it below the cap only if p_L rose past p_U. The
+ * last clause keeps a rare-event pilot from costing nearly the cap itself. Any pilot rule keeps
+ * the main estimate unbiased, since it sees only pilot streams.
+ */
+export function pilotHasEnough(
+  pilot: Pick<PilotOutcome, 'events' | 'scenarios' | 'upperBound'>,
+  rule: { relError: number; confidenceLevel: number; cap: number },
+): boolean {
+  if (pilot.events >= pilotMinEvents || pilot.scenarios >= rule.cap) return true;
+  const z = twoSidedZ(rule.confidenceLevel);
+  return pilot.upperBound > 0 && requiredScenarios(pilot.upperBound, rule.relError, z) >= rule.cap;
 }
 
 /** N = z^2 (1 - p) / (X^2 p): scenarios for a half-width of X p at probability p (not rounded). */
@@ -146,10 +160,12 @@ export interface PilotDriver {
   runBatch(task: BatchTask): Promise<ColumnBatch>;
   /** Feeds a batch (in id order) to the pilot's own summary. */
   feed(b: ColumnBatch): void;
-  /** The pilot summary's headline estimate and lower bound. */
-  headline(): { estimate: number; lowerBound: number };
+  /** The pilot summary's headline estimate and interval. */
+  headline(): { estimate: number; lowerBound: number; upperBound: number };
   countEvents(b: ColumnBatch): number;
   cap: number;
+  relError: number;
+  confidenceLevel: number;
   block: number;
   first: number;
   batchSize: number;
@@ -194,8 +210,7 @@ export async function runPilot(d: PilotDriver): Promise<PilotOutcome | null> {
       await Promise.allSettled(queue);
       return null;
     }
-    if (pilotHasEnough(events, done, d.cap)) break;
+    if (pilotHasEnough({ events, scenarios: done, ...d.headline() }, d)) break;
   }
-  const h = d.headline();
-  return { seed: d.seed, scenarios: done, events, estimate: h.estimate, lowerBound: h.lowerBound };
+  return { seed: d.seed, scenarios: done, events, ...d.headline() };
 }

@@ -100,9 +100,19 @@ describe('the planned size', () => {
 
   it('goes to the cap with zero pilot events', () => {
     expect(plannedScenarioCount({ events: 0, lowerBound: 0 }, rule)).toBe(rule.cap);
-    expect(pilotHasEnough(0, 1000, 1000)).toBe(true); // the pilot ends at the cap too
-    expect(pilotHasEnough(pilotMinEvents - 1, 1000, 4000)).toBe(false);
-    expect(pilotHasEnough(pilotMinEvents, 1000, 4000)).toBe(true);
+  });
+
+  it('ends the pilot at 10 events, at the cap, or once even its upper bound plans the cap', () => {
+    const few = { events: pilotMinEvents - 1, scenarios: 1000, upperBound: 0.02 };
+    expect(pilotHasEnough(few, rule)).toBe(false); // N(0.02) = 2091 < cap
+    expect(pilotHasEnough({ ...few, events: pilotMinEvents }, rule)).toBe(true);
+    expect(pilotHasEnough({ ...few, scenarios: rule.cap }, rule)).toBe(true);
+    // zero events in 1000: Clopper-Pearson upper 0.003682 (REFERENCES.md 9.3 (c)); at X = 0.3
+    // N(p_U) = 3.8415 x 0.9963 / (0.09 x 0.003682) = 11550: the pilot goes on under a cap of
+    // 100000 and stops under a cap of 10000
+    const none = { events: 0, scenarios: 1000, upperBound: 0.003682 };
+    expect(pilotHasEnough(none, rule)).toBe(false);
+    expect(pilotHasEnough(none, { ...rule, cap: 10_000 })).toBe(true);
   });
 });
 
@@ -137,12 +147,15 @@ describe('unbiasedness on a synthetic Bernoulli problem', () => {
       rng.reseed(streamKey(seedHash(2026), r, 1, 0));
       let n = 0;
       let k = 0;
+      let lowerBound = 0;
       for (const stage of pilotStages(1000, cap, block)) {
         k += events(stage - n);
         n = stage;
-        if (pilotHasEnough(k, n, cap)) break;
+        const iv = proportionInterval(k, n, level);
+        lowerBound = iv.low;
+        const pilot = { events: k, scenarios: n, upperBound: iv.high };
+        if (pilotHasEnough(pilot, { relError, confidenceLevel: level, cap })) break;
       }
-      const lowerBound = proportionInterval(k, n, level).low;
       const planned = plannedScenarioCount(
         { events: k, lowerBound },
         { relError, confidenceLevel: level, cap, block },
@@ -196,7 +209,8 @@ describe('runAssessment with untilRelError', () => {
     expect(rule.headlineMetric).toBe('p_failure');
     expect(pilot.seed).toBe(pilotSeed(7));
     expect(pilotStages(200, 3200, 100)).toContain(pilot.scenarios);
-    expect(pilot.events).toBeGreaterThanOrEqual(pilotMinEvents);
+    const sizing = { relError: 0.6, confidenceLevel: 0.95, cap: 3200 };
+    expect(pilotHasEnough(pilot, sizing)).toBe(true);
     const planned = plannedScenarioCount(pilot, {
       relError: 0.6,
       confidenceLevel: input.case.monteCarlo.confidenceLevel,
@@ -272,7 +286,9 @@ describe('runAssessment with untilRelError', () => {
       workers: 2,
     });
     const rule = out.manifest.untilRelError!;
-    expect(rule.pilot).toMatchObject({ scenarios: 300, events: 0, estimate: 0 });
+    // zero events in 200: the upper bound already plans the cap (N(p_U) > 300), so the pilot
+    // stops after its first stage
+    expect(rule.pilot).toMatchObject({ scenarios: 200, events: 0, estimate: 0, lowerBound: 0 });
     expect(rule.plannedScenarios).toBe(300);
     expect(rule.capped).toBe(true);
     expect(out.manifest.scenarioCount).toBe(300);
