@@ -15,9 +15,9 @@
  * its maximum). State of charge: d soc/dt = -p / E when discharging, -eta p / E when charging
  * (eta = round-trip efficiency, all losses booked on charging: a screening simplification).
  * Notation: R = droopPu, T = responseTimeConstantS, H_v = virtualInertiaS, E = energyKwh.
- * State slots: [p (grid-following), soc, -, energy].
+ * States: p (powerState, grid-following only), soc (auxState), energy.
  */
-import { type Island, stateOffset } from './island.js';
+import type { Island } from './island.js';
 
 export function batteryHighLimitPu(isl: Island, i: number): number {
   return isl.socEmpty[i] === 1 ? 0 : isl.ratingPu[i]!;
@@ -36,14 +36,14 @@ export function batteryFollowingDerivatives(
   dwPu: number,
   rocofPuPerS: number,
 ): void {
-  const o = stateOffset(i);
+  const ip = isl.powerState[i]!;
   const hi = batteryHighLimitPu(isl, i);
   const lo = batteryLowLimitPu(isl, i);
   let ref =
     isl.dispatchPu[i]! - isl.droopGainPu[i]! * dwPu - isl.virtualInertiaGainPuS[i]! * rocofPuPerS;
   ref = ref > hi ? hi : Math.max(ref, lo);
-  const p = x[o]!;
-  dx[o] = (ref - p) / isl.lagTimeS[i]!;
+  const p = x[ip]!;
+  dx[ip] = (ref - p) / isl.lagTimeS[i]!;
   batteryEnergyDerivatives(isl, i, dx, p);
 }
 
@@ -54,9 +54,7 @@ export function batteryEnergyDerivatives(
   dx: Float64Array,
   outputPu: number,
 ): void {
-  const o = stateOffset(i);
   const drawn = outputPu > 0 ? outputPu : isl.chargeEfficiency[i]! * outputPu;
-  dx[o + 1] = -drawn / isl.energyPuS[i]!;
-  dx[o + 2] = 0;
-  dx[o + 3] = outputPu;
+  dx[isl.auxState[i]!] = -drawn / isl.energyPuS[i]!;
+  dx[isl.energyState[i]!] = outputPu;
 }

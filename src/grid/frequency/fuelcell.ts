@@ -7,9 +7,9 @@
  * Source: the fuel-processor lag of Padulles, Ault and McDonald, "An integrated SOFC plant
  * dynamic model for power systems simulation", J. Power Sources 86:495-500, 2000 (from memory,
  * REFERENCES.md 6); the droop coupling is common practice, no source.
- * State slots: [p, -, -, energy].
+ * States: p (powerState), energy.
  */
-import { type Island, stateOffset } from './island.js';
+import type { Island } from './island.js';
 
 export function fuelCellDerivatives(
   isl: Island,
@@ -18,16 +18,14 @@ export function fuelCellDerivatives(
   dx: Float64Array,
   dwPu: number,
 ): void {
-  const o = stateOffset(i);
+  const ip = isl.powerState[i]!;
   const max = isl.ratingPu[i]!;
   let ref = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dwPu;
   ref = ref > max ? max : Math.max(ref, 0);
-  const p = x[o]!;
+  const p = x[ip]!;
   let dp = (ref - p) / isl.lagTimeS[i]!;
   const ramp = isl.rampPuPerS[i]!;
   if (dp > ramp) dp = ramp;
-  dx[o] = dp;
-  dx[o + 1] = 0;
-  dx[o + 2] = 0;
-  dx[o + 3] = p;
+  dx[ip] = dp;
+  dx[isl.energyState[i]!] = p;
 }

@@ -14,13 +14,13 @@
  * isochronous control) and sec. 9.1 (speed governing); the second-order engine response stands
  * for the engine plus actuator lags of small gensets (REFERENCES.md 6, structure only).
  * p_min is the motoring limit (friction and pumping losses), see island.ts.
- * State slots: [p, dp/dt (order 2), z, energy].
+ * States: p (powerState), dp/dt (auxState, order 2), z (integralState, when Ki > 0), energy.
  */
-import { type Island, stateOffset } from './island.js';
+import type { Island } from './island.js';
 
 /** Electrical output of an online genset, pu. */
 export function gensetOutputPu(isl: Island, i: number, x: Float64Array): number {
-  const p = x[stateOffset(i)]!;
+  const p = x[isl.powerState[i]!]!;
   if (isl.governorOrder[i] === 2) {
     const max = isl.ratingPu[i]!;
     const min = isl.minPu[i]!;
@@ -37,26 +37,29 @@ export function gensetDerivatives(
   dwPu: number,
   outputPu: number,
 ): void {
-  const o = stateOffset(i);
+  const ip = isl.powerState[i]!;
+  const iz = isl.integralState[i]!;
   const max = isl.ratingPu[i]!;
   const min = isl.minPu[i]!;
-  const raw = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dwPu + x[o + 2]!;
+  const raw = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dwPu + (iz >= 0 ? x[iz]! : 0);
   const ref = raw > max ? max : Math.max(raw, min);
-  let dz = -isl.isochronousGainPuPerS[i]! * dwPu;
-  if ((raw >= max && dz > 0) || (raw <= min && dz < 0)) dz = 0;
-  dx[o + 2] = dz;
-  const p = x[o]!;
+  if (iz >= 0) {
+    let dz = -isl.isochronousGainPuPerS[i]! * dwPu;
+    if ((raw >= max && dz > 0) || (raw <= min && dz < 0)) dz = 0;
+    dx[iz] = dz;
+  }
+  const p = x[ip]!;
   if (isl.governorOrder[i] === 1) {
     let dp = (ref - p) / isl.lagTimeS[i]!;
     const ramp = isl.rampPuPerS[i]!;
     if (dp > ramp) dp = ramp;
-    dx[o] = dp;
-    dx[o + 1] = 0;
+    dx[ip] = dp;
   } else {
     const wn = isl.naturalFrequencyRadPerS[i]!;
-    const v = x[o + 1]!;
-    dx[o] = v;
-    dx[o + 1] = wn * wn * (ref - p) - 2 * isl.dampingRatio[i]! * wn * v;
+    const iv = isl.auxState[i]!;
+    const v = x[iv]!;
+    dx[ip] = v;
+    dx[iv] = wn * wn * (ref - p) - 2 * isl.dampingRatio[i]! * wn * v;
   }
-  dx[o + 3] = outputPu;
+  dx[isl.energyState[i]!] = outputPu;
 }

@@ -4,9 +4,13 @@
  * preallocated work arrays of one event. Compiled once per case (and per worker thread); the
  * engine then reuses it scenario after scenario without allocating.
  *
- * State vector x (length 1 + 4 N for N sources): x[0] = frequency deviation dw = (f - f0)/f0 in
- * pu; source i owns x[1 + 4i .. 4 + 4i] with a per-kind meaning (see the source files) and the
- * last slot always the energy it delivered, in pu s. Powers are pu of S_b.
+ * State vector x (compact: only the states a source really has): x[0] = frequency deviation
+ * dw = (f - f0)/f0 in pu; then per source, in case order, its states as listed by `stateLayout`:
+ * the power p (genset, grid-following battery, PV, fuel cell), the auxiliary state (genset
+ * order 2: dp/dt; battery: state of charge; wind with synthetic inertia: rotor energy drawn dE),
+ * the genset's isochronous integral z (only when its gain is above 0), and always last the energy
+ * the source delivered, in pu s. The indices are in `powerState`, `auxState`, `integralState`,
+ * `energyState` (-1 where the source has no such state). Powers are pu of S_b.
  */
 import type { Case } from '../../case/schema.js';
 import { CaseError } from '../../errors.js';
@@ -19,16 +23,52 @@ import {
 
 export const SourceKind = { genset: 0, battery: 1, pv: 2, wind: 3, fuelcell: 4 } as const;
 export const LoadTierCode = { critical: 0, essential: 1, sheddable: 2 } as const;
-export const STATES_PER_SOURCE = 4;
-/** Slot of a source's delivered energy within its four states. */
-export const ENERGY_SLOT = 3;
 
 /** Genset motoring limit: friction and pumping losses, fraction of rating (common practice, no source). */
 const GENSET_MOTORING_FRACTION = 0.15;
 /** 90 % response time to first-order time constant: t90 = ln(10) tau. */
 const LN10 = Math.log(10);
 
-export const stateOffset = (i: number) => 1 + STATES_PER_SOURCE * i;
+/** Where each source's states sit in the state vector; -1 where a source has no such state. */
+export interface StateLayout {
+  stateCount: number;
+  powerState: Int32Array;
+  auxState: Int32Array;
+  integralState: Int32Array;
+  energyState: Int32Array;
+}
+
+/** The compact state layout of a case (see the header). */
+export function stateLayout(c: Case): StateLayout {
+  const n = c.sources.length;
+  const powerState = new Int32Array(n).fill(-1);
+  const auxState = new Int32Array(n).fill(-1);
+  const integralState = new Int32Array(n).fill(-1);
+  const energyState = new Int32Array(n).fill(-1);
+  let next = 1;
+  c.sources.forEach((s, i) => {
+    switch (s.kind) {
+      case 'genset':
+        powerState[i] = next++;
+        if (s.governor.order === 2) auxState[i] = next++;
+        if (s.isochronousGainPuPerS > 0) integralState[i] = next++;
+        break;
+      case 'battery':
+        if (s.control === 'grid-following') powerState[i] = next++;
+        auxState[i] = next++;
+        break;
+      case 'pv':
+      case 'fuelcell':
+        powerState[i] = next++;
+        break;
+      case 'wind':
+        if (s.syntheticInertia) auxState[i] = next++;
+        break;
+    }
+    energyState[i] = next++;
+  });
+  return { stateCount: next, powerState, auxState, integralState, energyState };
+}
 
 export class Island {
   readonly f0Hz: number;
@@ -37,6 +77,11 @@ export class Island {
   readonly loadCount: number;
   readonly stateCount: number;
   readonly sourceIds: readonly string[];
+  /** State indices per source (StateLayout); -1 where the source has no such state. */
+  readonly powerState: Int32Array;
+  readonly auxState: Int32Array;
+  readonly integralState: Int32Array;
+  readonly energyState: Int32Array;
 
   // Per source (pu on the island base unless the name says otherwise).
   readonly kind: Uint8Array;
@@ -131,14 +176,18 @@ export class Island {
   /** RoCoF of the last derivative evaluation, pu/s. */
   lastRocofPuPerS = 0;
 
-  constructor(c: Case, monitors: readonly MonitorSpec[]) {
+  constructor(c: Case, monitors: readonly MonitorSpec[], layout: StateLayout = stateLayout(c)) {
     const n = c.sources.length;
     const m = c.loads.length;
     this.f0Hz = c.system.frequencyHz;
     this.baseKw = c.system.baseKva;
     this.sourceCount = n;
     this.loadCount = m;
-    this.stateCount = 1 + STATES_PER_SOURCE * n;
+    this.stateCount = layout.stateCount;
+    this.powerState = layout.powerState;
+    this.auxState = layout.auxState;
+    this.integralState = layout.integralState;
+    this.energyState = layout.energyState;
     this.sourceIds = c.sources.map((s) => s.id);
     const f64 = () => new Float64Array(n);
     const u8 = () => new Uint8Array(n);
@@ -354,13 +403,13 @@ function validateForFrequency(c: Case): void {
 export function compileIsland(c: Case): Island {
   validateForFrequency(c);
   const monitors: MonitorSpec[] = [];
+  const layout = stateLayout(c);
   islandMonitors(c, monitors);
   c.sources.forEach((s, i) => {
     sourceTripMonitors(c, i, monitors);
-    const o = stateOffset(i);
     if (s.kind === 'genset')
       monitors.push({
-        quantity: o,
+        quantity: layout.powerState[i]!,
         level: (-s.reversePowerFraction * s.ratingKw) / c.system.baseKva,
         below: true,
         delayS: s.reversePowerDelayS,
@@ -370,7 +419,7 @@ export function compileIsland(c: Case): Island {
       });
     if (s.kind === 'battery') {
       monitors.push({
-        quantity: o + 1,
+        quantity: layout.auxState[i]!,
         level: s.socMinFraction,
         below: true,
         delayS: 0,
@@ -379,7 +428,7 @@ export function compileIsland(c: Case): Island {
         target: i,
       });
       monitors.push({
-        quantity: o + 1,
+        quantity: layout.auxState[i]!,
         level: s.socMaxFraction,
         below: false,
         delayS: 0,
@@ -390,7 +439,7 @@ export function compileIsland(c: Case): Island {
     }
     if (s.kind === 'wind' && s.syntheticInertia)
       monitors.push({
-        quantity: o + 1,
+        quantity: layout.auxState[i]!,
         level: 0, // set per island below: the rotor energy limit
         below: false,
         delayS: 0,
@@ -399,7 +448,7 @@ export function compileIsland(c: Case): Island {
         target: i,
       });
   });
-  const island = new Island(c, monitors);
+  const island = new Island(c, monitors, layout);
   for (let k = 0; k < island.monitorCount; k++)
     if (island.monAction[k] === MonitorAction.rotorAtMinimum)
       island.monLevel[k] = island.rotorEnergyLimitPuS[island.monTarget[k]!]!;

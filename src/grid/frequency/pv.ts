@@ -11,9 +11,9 @@
  * At MPPT p_avail = p_0 (the panel already gives all it can), so the min() removes any upward
  * response: the tool's "PV has no upward reserve" assumption.
  * Notation: db = overFrequencyDeadbandHz, k = overFrequencyDroopPu, t90 = responseTimeS.
- * State slots: [p, -, -, energy].
+ * States: p (powerState), energy.
  */
-import { type Island, stateOffset } from './island.js';
+import type { Island } from './island.js';
 
 /** Frequency-watt reference; shared with wind for the over-frequency side. */
 export function frequencyWattReferencePu(
@@ -43,14 +43,12 @@ export function pvDerivatives(
   dx: Float64Array,
   dwPu: number,
 ): void {
-  const o = stateOffset(i);
+  const ip = isl.powerState[i]!;
   const p0 = isl.dispatchPu[i]!;
   // MPPT: nothing above the present output; curtailed: up to the available power.
   const avail = isl.curtailed[i] === 1 ? Math.max(isl.availablePu[i]!, p0) : p0;
   const ref = frequencyWattReferencePu(isl, i, dwPu, avail);
-  const p = x[o]!;
-  dx[o] = (ref - p) / isl.lagTimeS[i]!;
-  dx[o + 1] = 0;
-  dx[o + 2] = 0;
-  dx[o + 3] = p;
+  const p = x[ip]!;
+  dx[ip] = (ref - p) / isl.lagTimeS[i]!;
+  dx[isl.energyState[i]!] = p;
 }

@@ -19,7 +19,7 @@ import { DormandPrince, type StepControl } from '../../numeric/dormand-prince.js
 import { illinoisRoot, type ScalarFunction } from '../../numeric/root.js';
 import type { Scenario } from '../../sample/scenario.js';
 import type { EventResult } from './event-result.js';
-import { ENERGY_SLOT, type Island, SourceKind, stateOffset } from './island.js';
+import { type Island, SourceKind } from './island.js';
 import { refreshLoadTotals } from './loads.js';
 import { OutcomeTracker } from './outcome.js';
 import { FREQUENCY_QUANTITY, MonitorAction, ROCOF_QUANTITY } from './protection.js';
@@ -141,7 +141,7 @@ function initialise(e: Engine, op: Scenario, out: EventResult, quasiSteadyLagS: 
   }
   let onlineKw = 0;
   for (let i = 0; i < isl.sourceCount; i++) {
-    const o = stateOffset(i);
+    const ip = isl.powerState[i]!;
     const running = op.available[i] === 1 && op.running[i] === 1;
     const lost = running && op.trippedAtSeparation[i] === 1;
     const online = running && !lost;
@@ -169,12 +169,12 @@ function initialise(e: Engine, op: Scenario, out: EventResult, quasiSteadyLagS: 
     const kind = isl.kind[i];
     if (kind === SourceKind.battery) {
       const soc = op.socFraction[i]!;
-      x[o + 1] = soc;
+      x[isl.auxState[i]!] = soc;
       if (soc <= isl.socMinFraction[i]!) isl.socEmpty[i] = 1;
       if (soc >= isl.socMaxFraction[i]!) isl.socFull[i] = 1;
-      if (isl.gridForming[i] === 0) x[o] = ceased ? 0 : isl.dispatchPu[i]!;
-      // (a quasi-steady grid-following unit ignores x[o]: its output is algebraic)
-    } else if (kind !== SourceKind.wind) x[o] = ceased ? 0 : isl.dispatchPu[i]!;
+      if (isl.gridForming[i] === 0) x[ip] = ceased ? 0 : isl.dispatchPu[i]!;
+      // (a quasi-steady grid-following unit ignores its power state: its output is algebraic)
+    } else if (kind !== SourceKind.wind) x[ip] = ceased ? 0 : isl.dispatchPu[i]!;
     if (online && !ceased) onlineKw += op.dispatchKw[i]!;
   }
   out.deficitKw = loadKw - onlineKw;
@@ -288,8 +288,11 @@ function fireTimers(e: Engine, tS: number, out: EventResult): boolean {
       isl.startAtS[i] = Number.POSITIVE_INFINITY;
       isl.online[i] = 1;
       isl.dispatchPu[i] = 0;
-      const o = stateOffset(i);
-      for (let s = 0; s < 3; s++) e.x[o + s] = 0;
+      e.x[isl.powerState[i]!] = 0;
+      const iv = isl.auxState[i]!;
+      const iz = isl.integralState[i]!;
+      if (iv >= 0) e.x[iv] = 0;
+      if (iz >= 0) e.x[iz] = 0;
       changed = true;
     }
     if (isl.cessationEndS[i]! <= due) {
@@ -473,12 +476,11 @@ function finish(e: Engine, tS: number, out: EventResult): void {
   if (out.status !== 'failed') e.eq.derivatives(tS, x, e.dxScratch);
   let tripped = 0;
   for (let i = 0; i < isl.sourceCount; i++) {
-    const o = stateOffset(i);
     out.runningAtEnd[i] = isl.online[i]!;
     const p = isl.outputPu[i]! * isl.baseKw;
     out.outputKwAtEnd[i] = Number.isFinite(p) ? p : 0;
-    out.socAtEnd[i] = isl.kind[i] === SourceKind.battery ? x[o + 1]! : 0;
-    const ekwh = (x[o + ENERGY_SLOT]! * isl.baseKw) / 3600;
+    out.socAtEnd[i] = isl.kind[i] === SourceKind.battery ? x[isl.auxState[i]!]! : 0;
+    const ekwh = (x[isl.energyState[i]!]! * isl.baseKw) / 3600;
     out.energyDeliveredKwh[i] = Number.isFinite(ekwh) ? ekwh : 0;
     if (!Number.isFinite(out.socAtEnd[i]!)) out.socAtEnd[i] = 0;
     tripped += out.tripped[i]!;

@@ -23,7 +23,7 @@ import {
 } from './battery.js';
 import { fuelCellDerivatives } from './fuelcell.js';
 import { gensetDerivatives, gensetOutputPu } from './genset.js';
-import { type Island, SourceKind, STATES_PER_SOURCE, stateOffset } from './island.js';
+import { type Island, SourceKind } from './island.js';
 import { loadDemandPu } from './loads.js';
 import { pvDerivatives } from './pv.js';
 import { windDerivatives, windOutputPu } from './wind.js';
@@ -81,7 +81,7 @@ export class IslandEquations implements OdeSystem {
             p = c > hi ? hi : Math.max(c, lo);
             break;
           }
-          p = x[stateOffset(i)]!;
+          p = x[isl.powerState[i]!]!;
           break;
         case SourceKind.wind:
           p = windOutputPu(isl, i, x, dw);
@@ -92,7 +92,7 @@ export class IslandEquations implements OdeSystem {
           }
           break;
         default:
-          p = x[stateOffset(i)]!;
+          p = x[isl.powerState[i]!]!;
       }
       out[i] = p;
       pSum += p;
@@ -141,9 +141,15 @@ export class IslandEquations implements OdeSystem {
     isl.lastRocofPuPerS = rocof;
 
     for (let i = 0; i < n; i++) {
-      const o = stateOffset(i);
       if (isl.online[i] === 0 || isl.ceased[i] === 1) {
-        for (let s = 0; s < STATES_PER_SOURCE; s++) dx[o + s] = 0;
+        // An offline or ceased source holds its states.
+        const ip = isl.powerState[i]!;
+        const iv = isl.auxState[i]!;
+        const iz = isl.integralState[i]!;
+        if (ip >= 0) dx[ip] = 0;
+        if (iv >= 0) dx[iv] = 0;
+        if (iz >= 0) dx[iz] = 0;
+        dx[isl.energyState[i]!] = 0;
         continue;
       }
       switch (isl.kind[i]) {
@@ -152,7 +158,7 @@ export class IslandEquations implements OdeSystem {
           break;
         case SourceKind.battery:
           if (isl.gridForming[i] === 1 || isl.quasiSteady[i] === 1) {
-            dx[o] = 0;
+            if (isl.powerState[i]! >= 0) dx[isl.powerState[i]!] = 0;
             batteryEnergyDerivatives(isl, i, dx, out[i]!);
           } else batteryFollowingDerivatives(isl, i, x, dx, dw, rocof);
           break;

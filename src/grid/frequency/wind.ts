@@ -20,9 +20,9 @@
  * Source: mechanism as in Kang et al., "Analysis and enhancement of HQT and ENTSO-E synthetic
  * inertia criteria", Energies 18(20):5359, 2025 (boost, rotor deceleration, recovery dip);
  * numbers from memory (REFERENCES.md 6).
- * State slots: [-, dE, -, energy].
+ * States: dE (auxState, only with synthetic inertia), energy.
  */
-import { type Island, stateOffset } from './island.js';
+import type { Island } from './island.js';
 import { frequencyWattReferencePu } from './pv.js';
 
 /** Output before support: the dispatch less the over-frequency curtailment, pu. */
@@ -39,7 +39,7 @@ export function windOutputPu(isl: Island, i: number, x: Float64Array, dwPu: numb
   const base = windBasePu(isl, i, dwPu);
   const cap = isl.windCapPu[i]!;
   if (isl.rotorRecovering[i] === 1) {
-    const r = x[stateOffset(i) + 1]! / isl.recoveryTimeConstantS[i]!;
+    const r = x[isl.auxState[i]!]! / isl.recoveryTimeConstantS[i]!;
     const p = base - Math.min(r, cap);
     return Math.max(p, 0);
   }
@@ -62,9 +62,7 @@ export function windDerivatives(
   dwPu: number,
   outputPu: number,
 ): void {
-  const o = stateOffset(i);
-  dx[o] = 0;
-  dx[o + 1] = outputPu - windBasePu(isl, i, dwPu);
-  dx[o + 2] = 0;
-  dx[o + 3] = outputPu;
+  const ie = isl.auxState[i]!;
+  if (ie >= 0) dx[ie] = outputPu - windBasePu(isl, i, dwPu);
+  dx[isl.energyState[i]!] = outputPu;
 }
