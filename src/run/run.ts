@@ -1,7 +1,8 @@
 /**
- * The Monte Carlo run end to end: plans the ids (shard, batches, checkpoints), sends batches to a
- * piscina pool, writes the returned columns to `scenarios.arrow` in scenario-id order through a
- * bounded reorder window, feeds the summary in id order, and writes summary.arrow and run.json.
+ * The Monte Carlo run end to end: plans the ids (the pilot of --until-rel-error, shard, batches),
+ * sends batches to a piscina pool, writes the returned columns to `scenarios.arrow` in
+ * scenario-id order through a bounded reorder window, feeds the summary in id order, and writes
+ * summary.arrow and run.json.
  *
  * Memory stays bounded whatever the count: at most `workers * tasksPerWorker` batches are
  * dispatched and not yet written. Stopping (SIGINT, the deterministic `stopAfterBatches` hook or
@@ -137,7 +138,9 @@ function stoppingRecord(
   complete: boolean,
   sink: SummarySink,
 ): StoppingRecord {
-  const h = complete ? sink.halfWidth(headline) : null;
+  // a build without the headline metric has nothing to judge: recorded as null
+  const row = complete ? sink.rows().find((r) => r.metric === headline) : undefined;
+  const h = row ? { estimate: row.estimate, halfWidth: (row.ciHigh - row.ciLow) / 2 } : null;
   return {
     design: 'pilot-then-fixed',
     target: relError,
