@@ -27,34 +27,57 @@ export function batteryLowLimitPu(isl: Island, i: number): number {
   return isl.socFull[i] === 1 ? 0 : -isl.ratingPu[i]!;
 }
 
-/** Grid-following unit: power-loop lag toward the droop-and-inertia reference. */
+/**
+ * Online grid-following units with a power-loop lag (`list`): lag toward the droop-and-inertia
+ * reference, state of charge and delivered energy. Their output (the power state) is in `out`.
+ */
 export function batteryFollowingDerivatives(
   isl: Island,
-  i: number,
+  list: Int32Array,
+  count: number,
   x: Float64Array,
   dx: Float64Array,
   dwPu: number,
   rocofPuPerS: number,
 ): void {
-  const ip = isl.powerState[i]!;
-  const hi = batteryHighLimitPu(isl, i);
-  const lo = batteryLowLimitPu(isl, i);
-  let ref =
-    isl.dispatchPu[i]! - isl.droopGainPu[i]! * dwPu - isl.virtualInertiaGainPuS[i]! * rocofPuPerS;
-  ref = ref > hi ? hi : Math.max(ref, lo);
-  const p = x[ip]!;
-  dx[ip] = (ref - p) / isl.lagTimeS[i]!;
-  batteryEnergyDerivatives(isl, i, dx, p);
+  const power = isl.powerState;
+  const dispatch = isl.dispatchPu;
+  const droop = isl.droopGainPu;
+  const inertia = isl.virtualInertiaGainPuS;
+  const lag = isl.lagTimeS;
+  for (let a = 0; a < count; a++) {
+    const i = list[a]!;
+    const ip = power[i]!;
+    const hi = batteryHighLimitPu(isl, i);
+    const lo = batteryLowLimitPu(isl, i);
+    let ref = dispatch[i]! - droop[i]! * dwPu - inertia[i]! * rocofPuPerS;
+    ref = ref > hi ? hi : Math.max(ref, lo);
+    dx[ip] = (ref - x[ip]!) / lag[i]!;
+  }
+  batteryEnergyDerivatives(isl, list, count, dx);
 }
 
-/** State of charge and delivered energy from the output p (both control modes). */
+/**
+ * State of charge and delivered energy of the online batteries in `list` from their outputs
+ * `isl.outputPu` (both control modes); a power state that the unit does not use (grid-following
+ * taken as quasi-steady) is held.
+ */
 export function batteryEnergyDerivatives(
   isl: Island,
-  i: number,
+  list: Int32Array,
+  count: number,
   dx: Float64Array,
-  outputPu: number,
 ): void {
-  const drawn = outputPu > 0 ? outputPu : isl.chargeEfficiency[i]! * outputPu;
-  dx[isl.auxState[i]!] = -drawn / isl.energyPuS[i]!;
-  dx[isl.energyState[i]!] = outputPu;
+  const out = isl.outputPu;
+  const eta = isl.chargeEfficiency;
+  const capacity = isl.energyPuS;
+  const soc = isl.auxState;
+  const energy = isl.energyState;
+  for (let a = 0; a < count; a++) {
+    const i = list[a]!;
+    const p = out[i]!;
+    const drawn = p > 0 ? p : eta[i]! * p;
+    dx[soc[i]!] = -drawn / capacity[i]!;
+    dx[energy[i]!] = p;
+  }
 }

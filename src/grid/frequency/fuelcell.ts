@@ -11,21 +11,33 @@
  */
 import type { Island } from './island.js';
 
+/** Lag, ramp limit and delivered energy of the online fuel cells in `list` (output = p). */
 export function fuelCellDerivatives(
   isl: Island,
-  i: number,
+  list: Int32Array,
+  count: number,
   x: Float64Array,
   dx: Float64Array,
   dwPu: number,
 ): void {
-  const ip = isl.powerState[i]!;
-  const max = isl.ratingPu[i]!;
-  let ref = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dwPu;
-  ref = ref > max ? max : Math.max(ref, 0);
-  const p = x[ip]!;
-  let dp = (ref - p) / isl.lagTimeS[i]!;
-  const ramp = isl.rampPuPerS[i]!;
-  if (dp > ramp) dp = ramp;
-  dx[ip] = dp;
-  dx[isl.energyState[i]!] = p;
+  const power = isl.powerState;
+  const energy = isl.energyState;
+  const rating = isl.ratingPu;
+  const dispatch = isl.dispatchPu;
+  const droop = isl.droopGainPu;
+  const lag = isl.lagTimeS;
+  const rampPu = isl.rampPuPerS;
+  for (let a = 0; a < count; a++) {
+    const i = list[a]!;
+    const ip = power[i]!;
+    const max = rating[i]!;
+    let ref = dispatch[i]! - droop[i]! * dwPu;
+    ref = ref > max ? max : Math.max(ref, 0);
+    const p = x[ip]!;
+    let dp = (ref - p) / lag[i]!;
+    const ramp = rampPu[i]!;
+    if (dp > ramp) dp = ramp;
+    dx[ip] = dp;
+    dx[energy[i]!] = p;
+  }
 }

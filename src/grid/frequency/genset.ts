@@ -18,48 +18,85 @@
  */
 import type { Island } from './island.js';
 
-/** Electrical output of an online genset, pu. */
-export function gensetOutputPu(isl: Island, i: number, x: Float64Array): number {
-  const p = x[isl.powerState[i]!]!;
-  if (isl.governorOrder[i] === 2) {
-    const max = isl.ratingPu[i]!;
-    const min = isl.minPu[i]!;
-    return p > max ? max : Math.max(p, min);
+/**
+ * Electrical outputs of the online gensets `list[0..count)` into `out`, pu; returns their sum.
+ * Order 2 is clamped to [p_min, S/S_b] (its state is not rate-limited).
+ */
+export function gensetOutputsPu(
+  isl: Island,
+  list: Int32Array,
+  count: number,
+  x: Float64Array,
+  out: Float64Array,
+): number {
+  const power = isl.powerState;
+  const order = isl.governorOrder;
+  const rating = isl.ratingPu;
+  const minPu = isl.minPu;
+  let sum = 0;
+  for (let a = 0; a < count; a++) {
+    const i = list[a]!;
+    let p = x[power[i]!]!;
+    if (order[i] === 2) {
+      const max = rating[i]!;
+      p = p > max ? max : Math.max(p, minPu[i]!);
+    }
+    out[i] = p;
+    sum += p;
   }
-  return p;
+  return sum;
 }
 
+/** Governor, isochronous integral and delivered-energy derivatives of the online gensets in `list`. */
 export function gensetDerivatives(
   isl: Island,
-  i: number,
+  list: Int32Array,
+  count: number,
   x: Float64Array,
   dx: Float64Array,
   dwPu: number,
-  outputPu: number,
 ): void {
-  const ip = isl.powerState[i]!;
-  const iz = isl.integralState[i]!;
-  const max = isl.ratingPu[i]!;
-  const min = isl.minPu[i]!;
-  const raw = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dwPu + (iz >= 0 ? x[iz]! : 0);
-  const ref = raw > max ? max : Math.max(raw, min);
-  if (iz >= 0) {
-    let dz = -isl.isochronousGainPuPerS[i]! * dwPu;
-    if ((raw >= max && dz > 0) || (raw <= min && dz < 0)) dz = 0;
-    dx[iz] = dz;
+  const power = isl.powerState;
+  const aux = isl.auxState;
+  const integral = isl.integralState;
+  const energy = isl.energyState;
+  const rating = isl.ratingPu;
+  const minPu = isl.minPu;
+  const dispatch = isl.dispatchPu;
+  const droop = isl.droopGainPu;
+  const ki = isl.isochronousGainPuPerS;
+  const order = isl.governorOrder;
+  const lag = isl.lagTimeS;
+  const rampPu = isl.rampPuPerS;
+  const wnRad = isl.naturalFrequencyRadPerS;
+  const zeta = isl.dampingRatio;
+  const out = isl.outputPu;
+  for (let a = 0; a < count; a++) {
+    const i = list[a]!;
+    const ip = power[i]!;
+    const iz = integral[i]!;
+    const max = rating[i]!;
+    const min = minPu[i]!;
+    const raw = dispatch[i]! - droop[i]! * dwPu + (iz >= 0 ? x[iz]! : 0);
+    const ref = raw > max ? max : Math.max(raw, min);
+    if (iz >= 0) {
+      let dz = -ki[i]! * dwPu;
+      if ((raw >= max && dz > 0) || (raw <= min && dz < 0)) dz = 0;
+      dx[iz] = dz;
+    }
+    const p = x[ip]!;
+    if (order[i] === 1) {
+      let dp = (ref - p) / lag[i]!;
+      const ramp = rampPu[i]!;
+      if (dp > ramp) dp = ramp;
+      dx[ip] = dp;
+    } else {
+      const wn = wnRad[i]!;
+      const iv = aux[i]!;
+      const v = x[iv]!;
+      dx[ip] = v;
+      dx[iv] = wn * wn * (ref - p) - 2 * zeta[i]! * wn * v;
+    }
+    dx[energy[i]!] = out[i]!;
   }
-  const p = x[ip]!;
-  if (isl.governorOrder[i] === 1) {
-    let dp = (ref - p) / isl.lagTimeS[i]!;
-    const ramp = isl.rampPuPerS[i]!;
-    if (dp > ramp) dp = ramp;
-    dx[ip] = dp;
-  } else {
-    const wn = isl.naturalFrequencyRadPerS[i]!;
-    const iv = isl.auxState[i]!;
-    const v = x[iv]!;
-    dx[ip] = v;
-    dx[iv] = wn * wn * (ref - p) - 2 * isl.dampingRatio[i]! * wn * v;
-  }
-  dx[isl.energyState[i]!] = outputPu;
 }

@@ -171,6 +171,11 @@ export class Island {
   /** Earliest pending timer, s, and whether it must be recomputed (simulate.ts). */
   nextTimerS = Number.POSITIVE_INFINITY;
   timersDirty = true;
+  /**
+   * Set whenever `online`, `ceased` or `quasiSteady` change (simulate.ts): the equations then
+   * rebuild their lists of active sources before the next evaluation.
+   */
+  modesChanged = true;
   /** Set by the equations when no unsaturated grid-forming source or machine holds frequency. */
   collapsed = false;
   /** RoCoF of the last derivative evaluation, pu/s. */

@@ -36,19 +36,30 @@ export function frequencyWattReferencePu(
   return p0;
 }
 
+/** Frequency-watt lag and delivered energy of the online PV units in `list` (output = p). */
 export function pvDerivatives(
   isl: Island,
-  i: number,
+  list: Int32Array,
+  count: number,
   x: Float64Array,
   dx: Float64Array,
   dwPu: number,
 ): void {
-  const ip = isl.powerState[i]!;
-  const p0 = isl.dispatchPu[i]!;
-  // MPPT: nothing above the present output; curtailed: up to the available power.
-  const avail = isl.curtailed[i] === 1 ? Math.max(isl.availablePu[i]!, p0) : p0;
-  const ref = frequencyWattReferencePu(isl, i, dwPu, avail);
-  const p = x[ip]!;
-  dx[ip] = (ref - p) / isl.lagTimeS[i]!;
-  dx[isl.energyState[i]!] = p;
+  const power = isl.powerState;
+  const energy = isl.energyState;
+  const dispatch = isl.dispatchPu;
+  const curtailed = isl.curtailed;
+  const available = isl.availablePu;
+  const lag = isl.lagTimeS;
+  for (let a = 0; a < count; a++) {
+    const i = list[a]!;
+    const ip = power[i]!;
+    const p0 = dispatch[i]!;
+    // MPPT: nothing above the present output; curtailed: up to the available power.
+    const avail = curtailed[i] === 1 ? Math.max(available[i]!, p0) : p0;
+    const ref = frequencyWattReferencePu(isl, i, dwPu, avail);
+    const p = x[ip]!;
+    dx[ip] = (ref - p) / lag[i]!;
+    dx[energy[i]!] = p;
+  }
 }

@@ -178,6 +178,7 @@ function initialise(e: Engine, op: Scenario, out: EventResult, quasiSteadyLagS: 
     if (online && !ceased) onlineKw += op.dispatchKw[i]!;
   }
   out.deficitKw = loadKw - onlineKw;
+  isl.modesChanged = true;
   refreshLoadTotals(isl);
   isl.timersDirty = true;
   for (let k = 0; k < isl.monitorCount; k++) {
@@ -223,6 +224,7 @@ function act(e: Engine, k: number, tS: number, out: EventResult): boolean {
     case MonitorAction.tripUnit:
       if (isl.online[i] === 0) return false;
       isl.online[i] = 0;
+      isl.modesChanged = true;
       out.tripped[i] = 1;
       if (!hasFormingSource(isl)) shutdown(out, 'no grid-forming source');
       return true;
@@ -287,6 +289,7 @@ function fireTimers(e: Engine, tS: number, out: EventResult): boolean {
       // Standby genset closes onto the island at zero load and follows its governor.
       isl.startAtS[i] = Number.POSITIVE_INFINITY;
       isl.online[i] = 1;
+      isl.modesChanged = true;
       isl.dispatchPu[i] = 0;
       e.x[isl.powerState[i]!] = 0;
       const iv = isl.auxState[i]!;
@@ -298,6 +301,7 @@ function fireTimers(e: Engine, tS: number, out: EventResult): boolean {
     if (isl.cessationEndS[i]! <= due) {
       isl.cessationEndS[i] = Number.POSITIVE_INFINITY;
       isl.ceased[i] = 0;
+      isl.modesChanged = true;
       changed = true;
     }
   }

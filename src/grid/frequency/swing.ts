@@ -22,77 +22,191 @@ import {
   batteryLowLimitPu,
 } from './battery.js';
 import { fuelCellDerivatives } from './fuelcell.js';
-import { gensetDerivatives, gensetOutputPu } from './genset.js';
+import { gensetDerivatives, gensetOutputsPu } from './genset.js';
 import { type Island, SourceKind } from './island.js';
 import { loadDemandPu } from './loads.js';
 import { pvDerivatives } from './pv.js';
 import { windDerivatives, windOutputPu } from './wind.js';
 
+/**
+ * The assembled equations. The online sources are kept in lists by kind (rebuilt only when a
+ * unit trips, starts or leaves momentary cessation: `Island.modesChanged`), so an evaluation
+ * runs one branch-light loop per kind and never visits an offline unit; an offline unit's
+ * states are held (derivative 0) through the list of held states.
+ */
 export class IslandEquations implements OdeSystem {
   private readonly algList: Int32Array;
+  /** 1 for the algebraic units that count as grid-forming (batteries), 0 for wind. */
+  private readonly algForming: Uint8Array;
+  private readonly gensets: Int32Array;
+  private readonly forming: Int32Array;
+  private readonly quasiSteady: Int32Array;
+  /** Batteries whose output is algebraic (forming and quasi-steady following). */
+  private readonly algebraicBatteries: Int32Array;
+  private readonly following: Int32Array;
+  private readonly pv: Int32Array;
+  private readonly wind: Int32Array;
+  private readonly fuelCells: Int32Array;
+  private readonly held: Int32Array;
+  private gensetCount = 0;
+  private formingCount = 0;
+  private quasiSteadyCount = 0;
+  private algebraicBatteryCount = 0;
+  private followingCount = 0;
+  private pvCount = 0;
+  private windCount = 0;
+  private fuelCellCount = 0;
+  private heldCount = 0;
+  /** Kinetic energy of the online machines, pu s (constant between mode changes). */
+  private machineKineticPuS = 0;
+
   constructor(readonly isl: Island) {
-    this.algList = new Int32Array(isl.sourceCount);
+    const n = isl.sourceCount;
+    this.algList = new Int32Array(n);
+    this.algForming = new Uint8Array(n);
+    this.gensets = new Int32Array(n);
+    this.forming = new Int32Array(n);
+    this.quasiSteady = new Int32Array(n);
+    this.algebraicBatteries = new Int32Array(n);
+    this.following = new Int32Array(n);
+    this.pv = new Int32Array(n);
+    this.wind = new Int32Array(n);
+    this.fuelCells = new Int32Array(n);
+    this.held = new Int32Array(isl.stateCount);
+  }
+
+  /** Rebuilds the lists of online sources by kind after a mode change. */
+  private rebuild(): void {
+    const isl = this.isl;
+    isl.modesChanged = false;
+    this.gensetCount = 0;
+    this.formingCount = 0;
+    this.quasiSteadyCount = 0;
+    this.algebraicBatteryCount = 0;
+    this.followingCount = 0;
+    this.pvCount = 0;
+    this.windCount = 0;
+    this.fuelCellCount = 0;
+    this.heldCount = 0;
+    this.machineKineticPuS = 0;
+    for (let i = 0; i < isl.sourceCount; i++) {
+      if (isl.online[i] === 0 || isl.ceased[i] === 1) {
+        isl.outputPu[i] = 0;
+        const ip = isl.powerState[i]!;
+        const iv = isl.auxState[i]!;
+        const iz = isl.integralState[i]!;
+        if (ip >= 0) this.held[this.heldCount++] = ip;
+        if (iv >= 0) this.held[this.heldCount++] = iv;
+        if (iz >= 0) this.held[this.heldCount++] = iz;
+        this.held[this.heldCount++] = isl.energyState[i]!;
+        continue;
+      }
+      switch (isl.kind[i]) {
+        case SourceKind.genset:
+          this.gensets[this.gensetCount++] = i;
+          this.machineKineticPuS += isl.kineticPuS[i]!;
+          break;
+        case SourceKind.battery:
+          if (isl.gridForming[i] === 1) {
+            this.forming[this.formingCount++] = i;
+            this.algebraicBatteries[this.algebraicBatteryCount++] = i;
+          } else if (isl.quasiSteady[i] === 1) {
+            this.quasiSteady[this.quasiSteadyCount++] = i;
+            this.algebraicBatteries[this.algebraicBatteryCount++] = i;
+            // Its power state is not used while the lag is taken as instantaneous: held.
+            this.held[this.heldCount++] = isl.powerState[i]!;
+          } else this.following[this.followingCount++] = i;
+          break;
+        case SourceKind.pv:
+          this.pv[this.pvCount++] = i;
+          break;
+        case SourceKind.wind:
+          this.wind[this.windCount++] = i;
+          break;
+        case SourceKind.fuelcell:
+          this.fuelCells[this.fuelCellCount++] = i;
+          break;
+      }
+    }
   }
 
   derivatives(_tS: number, x: Float64Array, dx: Float64Array): void {
     const isl = this.isl;
-    const n = isl.sourceCount;
+    if (isl.modesChanged) this.rebuild();
     const dw = x[0]!;
     const out = isl.outputPu;
+    const power = isl.powerState;
     const algList = this.algList;
+    const algForming = this.algForming;
+    const algC = isl.algC;
+    const algK = isl.algK;
+    const algLo = isl.algLo;
+    const algHi = isl.algHi;
+    const algState = isl.algState;
+    const dispatch = isl.dispatchPu;
+    const droop = isl.droopGainPu;
     let algCount = 0;
     let pSum = -loadDemandPu(isl, dw);
-    let kinetic = 0;
-    for (let i = 0; i < n; i++) {
-      out[i] = 0;
-      if (isl.online[i] === 0 || isl.ceased[i] === 1) continue;
-      let p = 0;
-      switch (isl.kind[i]) {
-        case SourceKind.genset:
-          p = gensetOutputPu(isl, i, x);
-          kinetic += isl.kineticPuS[i]!;
-          break;
-        case SourceKind.battery:
-          if (isl.gridForming[i] === 1) {
-            isl.algC[i] = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dw;
-            isl.algK[i] = isl.kineticPuS[i]!;
-            isl.algLo[i] = batteryLowLimitPu(isl, i);
-            isl.algHi[i] = batteryHighLimitPu(isl, i);
-            isl.algState[i] = 1;
-            algList[algCount++] = i;
-            continue;
-          }
-          if (isl.quasiSteady[i] === 1) {
-            // Grid-following with its lag taken as instantaneous: droop now, virtual inertia
-            // algebraic in the RoCoF (k = H_v S / S_b), inside the power and SoC limits.
-            const lo = batteryLowLimitPu(isl, i);
-            const hi = batteryHighLimitPu(isl, i);
-            const c = isl.dispatchPu[i]! - isl.droopGainPu[i]! * dw;
-            const k = 0.5 * isl.virtualInertiaGainPuS[i]!;
-            if (k > 0) {
-              isl.algC[i] = c;
-              isl.algK[i] = k;
-              isl.algLo[i] = lo;
-              isl.algHi[i] = hi;
-              isl.algState[i] = 1;
-              algList[algCount++] = i;
-              continue;
-            }
-            p = c > hi ? hi : Math.max(c, lo);
-            break;
-          }
-          p = x[isl.powerState[i]!]!;
-          break;
-        case SourceKind.wind:
-          p = windOutputPu(isl, i, x, dw);
-          if (Number.isNaN(p)) {
-            isl.algState[i] = 1;
-            algList[algCount++] = i;
-            continue;
-          }
-          break;
-        default:
-          p = x[isl.powerState[i]!]!;
+    pSum += gensetOutputsPu(isl, this.gensets, this.gensetCount, x, out);
+    const kinetic = this.machineKineticPuS;
+    for (let a = 0; a < this.formingCount; a++) {
+      const i = this.forming[a]!;
+      algC[i] = dispatch[i]! - droop[i]! * dw;
+      algK[i] = isl.kineticPuS[i]!;
+      algLo[i] = batteryLowLimitPu(isl, i);
+      algHi[i] = batteryHighLimitPu(isl, i);
+      algState[i] = 1;
+      algForming[algCount] = 1;
+      algList[algCount++] = i;
+    }
+    for (let a = 0; a < this.quasiSteadyCount; a++) {
+      // Grid-following with its lag taken as instantaneous: droop now, virtual inertia
+      // algebraic in the RoCoF (k = H_v S / S_b), inside the power and SoC limits.
+      const i = this.quasiSteady[a]!;
+      const lo = batteryLowLimitPu(isl, i);
+      const hi = batteryHighLimitPu(isl, i);
+      const c = dispatch[i]! - droop[i]! * dw;
+      const k = 0.5 * isl.virtualInertiaGainPuS[i]!;
+      if (k > 0) {
+        algC[i] = c;
+        algK[i] = k;
+        algLo[i] = lo;
+        algHi[i] = hi;
+        algState[i] = 1;
+        algForming[algCount] = 1;
+        algList[algCount++] = i;
+        continue;
+      }
+      const p = c > hi ? hi : Math.max(c, lo);
+      out[i] = p;
+      pSum += p;
+    }
+    for (let a = 0; a < this.followingCount; a++) {
+      const i = this.following[a]!;
+      const p = x[power[i]!]!;
+      out[i] = p;
+      pSum += p;
+    }
+    for (let a = 0; a < this.pvCount; a++) {
+      const i = this.pv[a]!;
+      const p = x[power[i]!]!;
+      out[i] = p;
+      pSum += p;
+    }
+    for (let a = 0; a < this.fuelCellCount; a++) {
+      const i = this.fuelCells[a]!;
+      const p = x[power[i]!]!;
+      out[i] = p;
+      pSum += p;
+    }
+    for (let a = 0; a < this.windCount; a++) {
+      const i = this.wind[a]!;
+      const p = windOutputPu(isl, i, x, dw);
+      if (Number.isNaN(p)) {
+        algState[i] = 1;
+        algForming[algCount] = 0;
+        algList[algCount++] = i;
+        continue;
       }
       out[i] = p;
       pSum += p;
@@ -105,11 +219,11 @@ export class IslandEquations implements OdeSystem {
       let kinForming = kinetic;
       for (let a = 0; a < algCount; a++) {
         const i = algList[a]!;
-        if (isl.algState[i] === 2) num += out[i]!;
+        if (algState[i] === 2) num += out[i]!;
         else {
-          num += isl.algC[i]!;
-          kin += isl.algK[i]!;
-          if (isl.kind[i] === SourceKind.battery) kinForming += isl.algK[i]!;
+          num += algC[i]!;
+          kin += algK[i]!;
+          if (algForming[a] === 1) kinForming += algK[i]!;
         }
       }
       if (kinForming <= 0) {
@@ -117,7 +231,7 @@ export class IslandEquations implements OdeSystem {
         rocof = 0;
         for (let a = 0; a < algCount; a++) {
           const i = algList[a]!;
-          if (isl.algState[i] === 1) out[i] = Math.max(isl.algLo[i]!, 0);
+          if (algState[i] === 1) out[i] = Math.max(algLo[i]!, 0);
         }
         break;
       }
@@ -125,13 +239,13 @@ export class IslandEquations implements OdeSystem {
       let changed = false;
       for (let a = 0; a < algCount; a++) {
         const i = algList[a]!;
-        if (isl.algState[i] === 2) continue;
-        const p = isl.algC[i]! - 2 * isl.algK[i]! * rocof;
-        const hi = isl.algHi[i]!;
-        const lo = isl.algLo[i]!;
+        if (algState[i] === 2) continue;
+        const p = algC[i]! - 2 * algK[i]! * rocof;
+        const hi = algHi[i]!;
+        const lo = algLo[i]!;
         if (p > hi || p < lo) {
           out[i] = p > hi ? hi : lo;
-          isl.algState[i] = 2;
+          algState[i] = 2;
           changed = true;
         } else out[i] = p;
       }
@@ -140,38 +254,13 @@ export class IslandEquations implements OdeSystem {
     dx[0] = rocof;
     isl.lastRocofPuPerS = rocof;
 
-    for (let i = 0; i < n; i++) {
-      if (isl.online[i] === 0 || isl.ceased[i] === 1) {
-        // An offline or ceased source holds its states.
-        const ip = isl.powerState[i]!;
-        const iv = isl.auxState[i]!;
-        const iz = isl.integralState[i]!;
-        if (ip >= 0) dx[ip] = 0;
-        if (iv >= 0) dx[iv] = 0;
-        if (iz >= 0) dx[iz] = 0;
-        dx[isl.energyState[i]!] = 0;
-        continue;
-      }
-      switch (isl.kind[i]) {
-        case SourceKind.genset:
-          gensetDerivatives(isl, i, x, dx, dw, out[i]!);
-          break;
-        case SourceKind.battery:
-          if (isl.gridForming[i] === 1 || isl.quasiSteady[i] === 1) {
-            if (isl.powerState[i]! >= 0) dx[isl.powerState[i]!] = 0;
-            batteryEnergyDerivatives(isl, i, dx, out[i]!);
-          } else batteryFollowingDerivatives(isl, i, x, dx, dw, rocof);
-          break;
-        case SourceKind.pv:
-          pvDerivatives(isl, i, x, dx, dw);
-          break;
-        case SourceKind.wind:
-          windDerivatives(isl, i, dx, dw, out[i]!);
-          break;
-        case SourceKind.fuelcell:
-          fuelCellDerivatives(isl, i, x, dx, dw);
-          break;
-      }
-    }
+    gensetDerivatives(isl, this.gensets, this.gensetCount, x, dx, dw);
+    batteryEnergyDerivatives(isl, this.algebraicBatteries, this.algebraicBatteryCount, dx);
+    batteryFollowingDerivatives(isl, this.following, this.followingCount, x, dx, dw, rocof);
+    pvDerivatives(isl, this.pv, this.pvCount, x, dx, dw);
+    windDerivatives(isl, this.wind, this.windCount, dx, dw);
+    fuelCellDerivatives(isl, this.fuelCells, this.fuelCellCount, x, dx, dw);
+    const held = this.held;
+    for (let a = 0; a < this.heldCount; a++) dx[held[a]!] = 0;
   }
 }

@@ -55,14 +55,22 @@ export function windOutputPu(isl: Island, i: number, x: Float64Array, dwPu: numb
   return Number.NaN;
 }
 
+/** Rotor energy drawn and delivered energy of the online wind units in `list` (outputs in `out`). */
 export function windDerivatives(
   isl: Island,
-  i: number,
+  list: Int32Array,
+  count: number,
   dx: Float64Array,
   dwPu: number,
-  outputPu: number,
 ): void {
-  const ie = isl.auxState[i]!;
-  if (ie >= 0) dx[ie] = outputPu - windBasePu(isl, i, dwPu);
-  dx[isl.energyState[i]!] = outputPu;
+  const out = isl.outputPu;
+  const rotor = isl.auxState;
+  const energy = isl.energyState;
+  for (let a = 0; a < count; a++) {
+    const i = list[a]!;
+    const p = out[i]!;
+    const ie = rotor[i]!;
+    if (ie >= 0) dx[ie] = p - windBasePu(isl, i, dwPu);
+    dx[energy[i]!] = p;
+  }
 }
