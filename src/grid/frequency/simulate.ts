@@ -85,7 +85,27 @@ class Engine {
   readonly pKw: Float64Array;
   readonly tracker = new OutcomeTracker();
   readonly gap = new MonitorGap();
+  /** Monitors on a state (quantity >= 1) and on the frequency, by index. */
+  readonly stateMonitors: Int32Array;
+  readonly frequencyMonitors: Int32Array;
+  /**
+   * Frequency band (pu) inside which no enabled frequency monitor changes state: every
+   * frequency monitor is skipped for a step whose end and interior extremum lie strictly inside.
+   * Recomputed when a monitor's state or enabling changed (`bandDirty`).
+   */
+  bandLoPu = 0;
+  bandHiPu = 0;
+  bandDirty = true;
   constructor(readonly isl: Island) {
+    const state: number[] = [];
+    const freq: number[] = [];
+    for (let k = 0; k < isl.monitorCount; k++) {
+      const q = isl.monQuantity[k]!;
+      if (q === FREQUENCY_QUANTITY) freq.push(k);
+      else if (q !== ROCOF_QUANTITY) state.push(k);
+    }
+    this.stateMonitors = Int32Array.from(state);
+    this.frequencyMonitors = Int32Array.from(freq);
     this.integ = new DormandPrince(isl.stateCount);
     this.eq = new IslandEquations(isl);
     this.x = new Float64Array(isl.stateCount);
@@ -179,6 +199,7 @@ function initialise(e: Engine, op: Scenario, out: EventResult, quasiSteadyLagS: 
   }
   out.deficitKw = loadKw - onlineKw;
   isl.modesChanged = true;
+  e.bandDirty = true;
   refreshLoadTotals(isl);
   isl.timersDirty = true;
   for (let k = 0; k < isl.monitorCount; k++) {
@@ -269,6 +290,7 @@ function fireTimers(e: Engine, tS: number, out: EventResult): boolean {
   const isl = e.isl;
   if (isl.nextTimerS > tS + CROSSING_TOL_S && !isl.timersDirty) return false;
   isl.timersDirty = true;
+  e.bandDirty = true;
   const due = tS + CROSSING_TOL_S;
   let changed = false;
   for (let k = 0; k < isl.monitorCount && !out.shutdown; k++) {
@@ -309,7 +331,9 @@ function fireTimers(e: Engine, tS: number, out: EventResult): boolean {
 }
 
 /** Toggles every state monitor whose condition changed at state x (after a cut step). */
-function updateMonitorStates(isl: Island, x: Float64Array, tS: number): void {
+function updateMonitorStates(e: Engine, x: Float64Array, tS: number): void {
+  const isl = e.isl;
+  e.bandDirty = true;
   for (let k = 0; k < isl.monitorCount; k++) {
     if (isl.monEnabled[k] === 0 || isl.monQuantity[k] === ROCOF_QUANTITY) continue;
     const active = isActive(isl, k, monitorValue(isl, k, x));
@@ -333,38 +357,82 @@ function updateRocofMonitors(isl: Island, rocofHzPerS: number, tS: number): void
   }
 }
 
+/** The band of frequencies (pu) in which every enabled frequency monitor keeps its state. */
+function refreshBand(e: Engine): void {
+  const isl = e.isl;
+  let lo = Number.NEGATIVE_INFINITY;
+  let hi = Number.POSITIVE_INFINITY;
+  const list = e.frequencyMonitors;
+  for (let a = 0; a < list.length; a++) {
+    const k = list[a]!;
+    if (isl.monEnabled[k] === 0) continue;
+    const level = isl.monLevel[k]!;
+    // below: active while f < level, inactive while f >= level; above: the mirror image.
+    // The band is taken open at every level (conservative at equality).
+    const upperBound = (isl.monBelow[k] === 1) === (isl.monActive[k] === 1);
+    if (upperBound) {
+      if (level < hi) hi = level;
+    } else if (level > lo) lo = level;
+  }
+  e.bandLoPu = lo;
+  e.bandHiPu = hi;
+  e.bandDirty = false;
+}
+
+/** Earliest crossing of monitor k inside the last accepted step as theta, or `best` if none earlier. */
+function monitorCrossing(e: Engine, k: number, best: number): number {
+  const isl = e.isl;
+  const integ = e.integ;
+  const q = isl.monQuantity[k]!;
+  const thetaExt = e.tracker.extremumTheta;
+  const wasActive = isl.monActive[k] === 1;
+  let a = 0;
+  let b = 1;
+  if (
+    q === FREQUENCY_QUANTITY &&
+    thetaExt >= 0 &&
+    isActive(isl, k, e.tracker.extremumPu) !== wasActive
+  )
+    b = thetaExt;
+  else if (isActive(isl, k, monitorValue(isl, k, integ.y1)) === wasActive) return best;
+  else if (q === FREQUENCY_QUANTITY && thetaExt >= 0) a = thetaExt;
+  if (a >= best) return best;
+  const gap = e.gap;
+  gap.integ = integ;
+  gap.index = q === FREQUENCY_QUANTITY ? 0 : q;
+  gap.level = isl.monLevel[k]!;
+  const ga = gap.value(a);
+  const gb = gap.value(b);
+  const theta = illinoisRoot(gap, a, b, ga, gb, CROSSING_TOL_S / integ.hS);
+  return theta < best ? theta : best;
+}
+
 /**
  * Earliest monitor crossing inside the last accepted step, as theta in (0, 1]; 2 if none.
- * Frequency monitors are also tested at the step's interior extremum.
+ * Frequency monitors are also tested at the step's interior extremum; they are skipped together
+ * when the step's end and extremum stay inside the band where none of them changes state.
  */
 function earliestCrossing(e: Engine): number {
   const isl = e.isl;
-  const integ = e.integ;
-  const y1 = integ.y1;
-  const gap = e.gap;
-  gap.integ = integ;
+  let best = 2;
+  const states = e.stateMonitors;
+  for (let a = 0; a < states.length; a++) {
+    const k = states[a]!;
+    if (isl.monEnabled[k] === 1) best = monitorCrossing(e, k, best);
+  }
+  if (e.bandDirty) refreshBand(e);
+  const f1 = e.integ.y1[0]!;
   const thetaExt = e.tracker.extremumTheta;
   const fExt = e.tracker.extremumPu;
-  let best = 2;
-  for (let k = 0; k < isl.monitorCount; k++) {
-    if (isl.monEnabled[k] === 0) continue;
-    const q = isl.monQuantity[k]!;
-    if (q === ROCOF_QUANTITY) continue;
-    const wasActive = isl.monActive[k] === 1;
-    const level = isl.monLevel[k]!;
-    let a = 0;
-    let b = 1;
-    if (q === FREQUENCY_QUANTITY && thetaExt >= 0 && isActive(isl, k, fExt) !== wasActive)
-      b = thetaExt;
-    else if (isActive(isl, k, monitorValue(isl, k, y1)) === wasActive) continue;
-    else if (q === FREQUENCY_QUANTITY && thetaExt >= 0) a = thetaExt;
-    if (a >= best) continue;
-    gap.index = q === FREQUENCY_QUANTITY ? 0 : q;
-    gap.level = level;
-    const ga = gap.value(a);
-    const gb = gap.value(b);
-    const theta = illinoisRoot(gap, a, b, ga, gb, CROSSING_TOL_S / integ.hS);
-    if (theta < best) best = theta;
+  const inside =
+    f1 > e.bandLoPu &&
+    f1 < e.bandHiPu &&
+    (thetaExt < 0 || (fExt > e.bandLoPu && fExt < e.bandHiPu));
+  if (inside) return best;
+  const freq = e.frequencyMonitors;
+  for (let a = 0; a < freq.length; a++) {
+    const k = freq[a]!;
+    if (isl.monEnabled[k] === 1) best = monitorCrossing(e, k, best);
   }
   return best;
 }
@@ -453,7 +521,7 @@ export function simulateEvent(
         t = integ.hS === maxH ? tStop : integ.t1;
       }
       if (sampled && tracker.rocofReady) updateRocofMonitors(isl, f0 * tracker.rocofNowPuPerS, t);
-      if (theta <= 1) updateMonitorStates(isl, x, t);
+      if (theta <= 1) updateMonitorStates(e, x, t);
       if (cut) integ.restart(e.eq, t, x, 0);
       else integ.t1 = t;
     } else t = tStop;
