@@ -404,7 +404,7 @@ function monitorCrossing(e: Engine, k: number, best: number): number {
   const ga = gap.value(a);
   const gb = gap.value(b);
   const theta = illinoisRoot(gap, a, b, ga, gb, CROSSING_TOL_S / integ.hS);
-  return theta < best ? theta : best;
+  return Math.min(theta, best);
 }
 
 /**
