@@ -18,12 +18,14 @@ import { doublingCounts, feedBlockOf, shardRange } from '../../src/run/plan.js';
 import { feedBatch, runAssessment } from '../../src/run/run.js';
 import {
   countHeadlineEvents,
+  type PilotDriver,
   pilotHasEnough,
   pilotMinEvents,
   pilotSeed,
   pilotStages,
   plannedScenarioCount,
   requiredScenarios,
+  runPilot,
   stoppingRuleSentence,
 } from '../../src/run/stopping-rule.js';
 import { createSummary, summarySettings } from '../../src/run/summary-feed.js';
@@ -190,6 +192,67 @@ describe('unbiasedness on a synthetic Bernoulli problem', () => {
     // the lower bound makes the target likely but not certain (93 % at this seed)
     expect(met / reps).toBeGreaterThan(0.85);
     expect(met).toBeLessThan(reps);
+  });
+});
+
+describe('runPilot', () => {
+  // a synthetic pilot: the headline event is scenario id % 50 === 0 (p = 0.02, events at ids
+  // 0, 50, 100, ...), batches resolve out of order; the summary is a plain count
+  const driver = (signal?: AbortSignal): { fed: number[]; d: PilotDriver } => {
+    const fed: number[] = [];
+    let events = 0;
+    let n = 0;
+    return {
+      fed,
+      d: {
+        runBatch: async (task) => {
+          const shutdown = new Uint8Array(task.count);
+          for (let i = 0; i < task.count; i++) shutdown[i] = (task.firstId + i) % 50 === 0 ? 1 : 0;
+          // batches at even hundreds resolve after the next one: the pilot must still feed
+          // them in id order
+          const hops = task.firstId % 200 === 0 ? 5 : 1;
+          for (let k = 0; k < hops; k++) await Promise.resolve();
+          return { firstId: task.firstId, count: task.count, columns: { shutdown } };
+        },
+        feed: (b) => {
+          fed.push(b.firstId);
+          n += b.count;
+        },
+        countEvents: (b) => {
+          let k = 0;
+          for (let i = 0; i < b.count; i++) k += Number(b.columns['shutdown']![i]);
+          events += k;
+          return k;
+        },
+        headline: () => {
+          const iv = proportionInterval(events, n, 0.95);
+          return { estimate: iv.estimate, lowerBound: iv.low, upperBound: iv.high };
+        },
+        cap: 10_000,
+        relError: 0.3,
+        confidenceLevel: 0.95,
+        block: 100,
+        first: 200,
+        batchSize: 100,
+        window: 3,
+        seed: pilotSeed(7),
+        signal,
+      },
+    };
+  };
+
+  it('grows in doubling stages until 10 events, feeding batches in id order', async () => {
+    const { fed, d } = driver();
+    const out = await runPilot(d);
+    // stages 200 (4 events), 400 (8), 800 (16): stops at 800
+    expect(out).toMatchObject({ seed: '7/pilot', scenarios: 800, events: 16, estimate: 0.02 });
+    expect(fed).toEqual([0, 100, 200, 300, 400, 500, 600, 700]);
+  });
+
+  it('returns null when aborted', async () => {
+    const stop = new AbortController();
+    stop.abort();
+    expect(await runPilot(driver(stop.signal).d)).toBeNull();
   });
 });
 
