@@ -118,7 +118,8 @@ export const optionTable = {
     flags: '--until-rel-error <x>',
     attribute: 'untilRelError',
     kind: 'relError',
-    description: 'keep adding scenarios until every headline metric has relative CI half-width < x',
+    description:
+      'size the run for a relative CI half-width < x of the failure probability: an independent pilot sets the count (capped at --scenarios); the estimate stays unbiased',
   },
   parquet: {
     flags: '--parquet',
