@@ -17,6 +17,12 @@
  *
  * Knows nothing of microgrids: the system is any object with `derivatives(t, y, dydt)`.
  * All buffers are allocated once in the constructor; `step` allocates nothing.
+ *
+ * Quadrature components: when the right-hand side never reads components `readCount..n-1`
+ * (pure integrals such as delivered energy, y_q' = g(t, y_0..y_{readCount-1})), their stage
+ * values are never needed, so the stage sums are formed for the first `readCount` components
+ * only; y1, the error estimate and the dense output still cover all n. The result is identical
+ * to the full computation (the skipped values are never read).
  */
 
 /** A first-order system y' = f(t, y); fills `dydt` in place. */
@@ -98,6 +104,8 @@ export type StepOutcome = 'accepted' | 'failed';
 
 export class DormandPrince {
   readonly n: number;
+  /** Leading components the right-hand side reads; the rest are quadratures (see header). */
+  readonly readCount: number;
   /** State at the start of the last accepted step (t0) and at its end (t1). */
   readonly y0: Float64Array;
   readonly y1: Float64Array;
@@ -130,8 +138,11 @@ export class DormandPrince {
   /** Error norm of the last accepted step (PI controller memory), floored at 1e-4. */
   private errOld = 1e-4;
 
-  constructor(n: number) {
+  constructor(n: number, readCount = n) {
+    if (!(readCount >= 0 && readCount <= n))
+      throw new RangeError(`readCount must be in [0, ${n}], got ${readCount}`);
     this.n = n;
+    this.readCount = readCount;
     this.y0 = new Float64Array(n);
     this.y1 = new Float64Array(n);
     this.k1 = new Float64Array(n);
@@ -171,6 +182,7 @@ export class DormandPrince {
    */
   step(sys: OdeSystem, maxHS: number, ctl: StepControl, fixedHS = 0): StepOutcome {
     const n = this.n;
+    const m = this.readCount;
     // The new step starts where the last one ended (FSAL: k1 = old k7).
     this.y0.set(this.y1);
     this.k1.set(this.k7);
@@ -195,16 +207,16 @@ export class DormandPrince {
         this.restoreAfterFailure();
         return 'failed';
       }
-      for (let i = 0; i < n; i++) ys[i] = y0[i]! + h * A21 * k1[i]!;
+      for (let i = 0; i < m; i++) ys[i] = y0[i]! + h * A21 * k1[i]!;
       sys.derivatives(t + C2 * h, ys, k2);
-      for (let i = 0; i < n; i++) ys[i] = y0[i]! + h * (A31 * k1[i]! + A32 * k2[i]!);
+      for (let i = 0; i < m; i++) ys[i] = y0[i]! + h * (A31 * k1[i]! + A32 * k2[i]!);
       sys.derivatives(t + C3 * h, ys, k3);
-      for (let i = 0; i < n; i++) ys[i] = y0[i]! + h * (A41 * k1[i]! + A42 * k2[i]! + A43 * k3[i]!);
+      for (let i = 0; i < m; i++) ys[i] = y0[i]! + h * (A41 * k1[i]! + A42 * k2[i]! + A43 * k3[i]!);
       sys.derivatives(t + C4 * h, ys, k4);
-      for (let i = 0; i < n; i++)
+      for (let i = 0; i < m; i++)
         ys[i] = y0[i]! + h * (A51 * k1[i]! + A52 * k2[i]! + A53 * k3[i]! + A54 * k4[i]!);
       sys.derivatives(t + C5 * h, ys, k5);
-      for (let i = 0; i < n; i++)
+      for (let i = 0; i < m; i++)
         ys[i] =
           y0[i]! + h * (A61 * k1[i]! + A62 * k2[i]! + A63 * k3[i]! + A64 * k4[i]! + A65 * k5[i]!);
       sys.derivatives(t + h, ys, k6);

@@ -127,4 +127,32 @@ describe('DormandPrince', () => {
     d2.restart(blowUp, 0, Float64Array.of(1e10), 1);
     expect(d2.step(blowUp, 1, tight)).toBe('failed');
   });
+
+  it('gives the same steps and values with quadrature components left out of the stage sums', () => {
+    // Van der Pol plus two integrals its right-hand side never reads: q0 = int y0 dt and
+    // q1 = int y1^2 dt. Stage values of q are never read, so readCount = 2 must reproduce the
+    // full computation exactly (same accepted steps, bit-identical state and dense output).
+    const sys: OdeSystem = {
+      derivatives(_t, y, dy) {
+        dy[0] = y[1]!;
+        dy[1] = (1 - y[0]! * y[0]!) * y[1]! - y[0]!;
+        dy[2] = y[0]!;
+        dy[3] = y[1]! * y[1]!;
+      },
+    };
+    const ctl: StepControl = { relTol: 1e-6, absTol: 1e-8, maxStepS: 1, minStepS: 1e-12 };
+    const run = (readCount: number) => {
+      const dp = new DormandPrince(4, readCount);
+      dp.restart(sys, 0, Float64Array.of(2, 0, 0, 0), 1e-3);
+      while (dp.t1 < 5 - 1e-12) dp.step(sys, 5 - dp.t1, ctl);
+      return dp;
+    };
+    const full = run(4);
+    const quad = run(2);
+    expect(quad.steps).toBe(full.steps);
+    expect(quad.rejected).toBe(full.rejected);
+    expect(Array.from(quad.y1)).toEqual(Array.from(full.y1));
+    expect(quad.interpolateComponent(3, 0.37)).toBe(full.interpolateComponent(3, 0.37));
+    expect(() => new DormandPrince(2, 3)).toThrow(RangeError);
+  });
 });

@@ -5,11 +5,11 @@
  * engine then reuses it scenario after scenario without allocating.
  *
  * State vector x (compact: only the states a source really has): x[0] = frequency deviation
- * dw = (f - f0)/f0 in pu; then per source, in case order, its states as listed by `stateLayout`:
- * the power p (genset, grid-following battery, PV, fuel cell), the auxiliary state (genset
- * order 2: dp/dt; battery: state of charge; wind with synthetic inertia: rotor energy drawn dE),
- * the genset's isochronous integral z (only when its gain is above 0), and always last the energy
- * the source delivered, in pu s. The indices are in `powerState`, `auxState`, `integralState`,
+ * dw = (f - f0)/f0 in pu; then, in case order, the states the equations read: the power p
+ * (genset, grid-following battery, PV, fuel cell), the auxiliary state (genset order 2: dp/dt;
+ * wind with synthetic inertia: rotor energy drawn dE) and the genset's isochronous integral z
+ * (only when its gain is above 0); then the pure integrals: the battery's state of charge (its
+ * auxiliary state) and every source's delivered energy, in pu s. The indices are in `powerState`, `auxState`, `integralState`,
  * `energyState` (-1 where the source has no such state). Powers are pu of S_b.
  */
 import type { Case } from '../../case/schema.js';
@@ -32,13 +32,20 @@ const LN10 = Math.log(10);
 /** Where each source's states sit in the state vector; -1 where a source has no such state. */
 export interface StateLayout {
   stateCount: number;
+  /** States 0..readStateCount-1 are read by the equations; the rest are pure integrals. */
+  readStateCount: number;
   powerState: Int32Array;
   auxState: Int32Array;
   integralState: Int32Array;
   energyState: Int32Array;
 }
 
-/** The compact state layout of a case (see the header). */
+/**
+ * The compact state layout of a case (see the header). The states the equations read come
+ * first (frequency, powers, genset dp/dt and integral, wind rotor energy); the pure integrals
+ * (battery state of charge, delivered energy) follow from `readStateCount` on, so that the
+ * integrator forms no stage values for them (DormandPrince `readCount`).
+ */
 export function stateLayout(c: Case): StateLayout {
   const n = c.sources.length;
   const powerState = new Int32Array(n).fill(-1);
@@ -55,7 +62,6 @@ export function stateLayout(c: Case): StateLayout {
         break;
       case 'battery':
         if (s.control === 'grid-following') powerState[i] = next++;
-        auxState[i] = next++;
         break;
       case 'pv':
       case 'fuelcell':
@@ -65,9 +71,13 @@ export function stateLayout(c: Case): StateLayout {
         if (s.syntheticInertia) auxState[i] = next++;
         break;
     }
+  });
+  const readStateCount = next;
+  c.sources.forEach((s, i) => {
+    if (s.kind === 'battery') auxState[i] = next++;
     energyState[i] = next++;
   });
-  return { stateCount: next, powerState, auxState, integralState, energyState };
+  return { stateCount: next, readStateCount, powerState, auxState, integralState, energyState };
 }
 
 export class Island {
@@ -76,6 +86,8 @@ export class Island {
   readonly sourceCount: number;
   readonly loadCount: number;
   readonly stateCount: number;
+  /** States the equations read (the first ones); the rest are integrals of them (StateLayout). */
+  readonly readStateCount: number;
   readonly sourceIds: readonly string[];
   /** State indices per source (StateLayout); -1 where the source has no such state. */
   readonly powerState: Int32Array;
@@ -189,6 +201,7 @@ export class Island {
     this.sourceCount = n;
     this.loadCount = m;
     this.stateCount = layout.stateCount;
+    this.readStateCount = layout.readStateCount;
     this.powerState = layout.powerState;
     this.auxState = layout.auxState;
     this.integralState = layout.integralState;

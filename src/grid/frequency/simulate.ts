@@ -106,7 +106,7 @@ class Engine {
     }
     this.stateMonitors = Int32Array.from(state);
     this.frequencyMonitors = Int32Array.from(freq);
-    this.integ = new DormandPrince(isl.stateCount);
+    this.integ = new DormandPrince(isl.stateCount, isl.readStateCount);
     this.eq = new IslandEquations(isl);
     this.x = new Float64Array(isl.stateCount);
     this.xTrace = new Float64Array(isl.stateCount);
