@@ -220,8 +220,17 @@ export class DormandPrince {
         ys[i] =
           y0[i]! + h * (A61 * k1[i]! + A62 * k2[i]! + A63 * k3[i]! + A64 * k4[i]! + A65 * k5[i]!);
       sys.derivatives(t + h, ys, k6);
-      for (let i = 0; i < n; i++)
-        y1[i] = y0[i]! + h * (B1 * k1[i]! + B3 * k3[i]! + B4 * k4[i]! + B5 * k5[i]! + B6 * k6[i]!);
+      // The stage values are spent: ys now holds the error sum up to k6 (k7 is added below; the
+      // same left-to-right sum as written out in one expression).
+      for (let i = 0; i < n; i++) {
+        const a1 = k1[i]!;
+        const a3 = k3[i]!;
+        const a4 = k4[i]!;
+        const a5 = k5[i]!;
+        const a6 = k6[i]!;
+        y1[i] = y0[i]! + h * (B1 * a1 + B3 * a3 + B4 * a4 + B5 * a5 + B6 * a6);
+        ys[i] = E1 * a1 + E3 * a3 + E4 * a4 + E5 * a5 + E6 * a6;
+      }
       sys.derivatives(t + h, y1, k7);
       this.evaluations += 6;
       let errSq = 0;
@@ -229,8 +238,7 @@ export class DormandPrince {
       for (let i = 0; i < n; i++) {
         const yi = y1[i]!;
         if (!Number.isFinite(yi)) finite = false;
-        const e =
-          h * (E1 * k1[i]! + E3 * k3[i]! + E4 * k4[i]! + E5 * k5[i]! + E6 * k6[i]! + E7 * k7[i]!);
+        const e = h * (ys[i]! + E7 * k7[i]!);
         const sc = ctl.absTol + ctl.relTol * Math.max(Math.abs(y0[i]!), Math.abs(yi));
         errSq += (e / sc) * (e / sc);
       }
