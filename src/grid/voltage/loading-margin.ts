@@ -94,7 +94,9 @@ export function loadingMargin(
     flow.loadQ0[l] = flow.loadQ0[l]! * v ** net.loadExpQ[l]!;
   }
   flow.constantPowerLoads = true;
+  flow.stopWhenHopeless = true;
   const lambda = searchNose(flow, tree, ws, opts);
+  flow.stopWhenHopeless = false;
   flow.constantPowerLoads = false;
   flow.loadP0.set(ws.loadP0);
   flow.loadQ0.set(ws.loadQ0);

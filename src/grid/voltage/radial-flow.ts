@@ -56,6 +56,14 @@ export class RadialFlow {
   loadScale = 1;
   /** Treat every load as constant power (exponents 0); the loading margin search sets it. */
   constantPowerLoads = false;
+  /**
+   * Give up as soon as the sweep evidently cannot converge within maxIter: from the 4th sweep on,
+   * the contraction rho = dV_k / dV_(k-1) is read as that of a linear iteration, and when
+   * dV_k * rho^(maxIter - k) stays above tolPu (or rho >= 1) on 3 sweeps in a row the solve stops
+   * with the status it would have reached at maxIter (no convergence, or collapse past the nose).
+   * The margin search sets it; its trials only decide solvability.
+   */
+  stopWhenHopeless = false;
 
   rootV0Pu = 1;
   /** Root Q-V droop, pu voltage per pu reactive power on the system base. */
@@ -154,6 +162,8 @@ export class RadialFlow {
 
     let status: FlowStatus = FLOW_NO_CONVERGENCE;
     let iter = 0;
+    let prevDv = Number.POSITIVE_INFINITY;
+    let hopeless = 0;
     for (iter = 1; iter <= maxIter; iter++) {
       // bus demand at the present voltages, minus fixed generation
       for (let b = 0; b < n; b++) {
@@ -237,6 +247,16 @@ export class RadialFlow {
         break;
       }
       if (iter === maxIter && nose) status = FLOW_COLLAPSE;
+      if (this.stopWhenHopeless) {
+        const rho = maxDv / prevDv;
+        const left = maxIter - iter;
+        hopeless = iter >= 4 && (rho >= 1 || maxDv * rho ** left > tolPu) ? hopeless + 1 : 0;
+        if (hopeless >= 3) {
+          if (nose) status = FLOW_COLLAPSE;
+          break;
+        }
+      }
+      prevDv = maxDv;
     }
     this.iterations = Math.min(iter, maxIter);
     if (status === FLOW_OK) this.computeAngles(tree);

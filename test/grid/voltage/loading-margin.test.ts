@@ -1,5 +1,9 @@
 import { describe, expect, it } from 'vitest';
-import { loadingMargin, MarginWorkspace } from '../../../src/grid/voltage/loading-margin.js';
+import {
+  defaultMarginOptions,
+  loadingMargin,
+  MarginWorkspace,
+} from '../../../src/grid/voltage/loading-margin.js';
 import { compileNetworkData } from '../../../src/grid/voltage/network.js';
 import { FLOW_OK, RadialFlow } from '../../../src/grid/voltage/radial-flow.js';
 import { baranWuCase, parseCase } from './fixtures.js';
@@ -119,5 +123,61 @@ describe('loading margin', () => {
     flow.solve(net.trees[0]!, 1e-10, 100);
     const opts = { tolPu: 1e-8, maxIter: 400, relTol: 1e-3, maxFactor: 20 };
     expect(loadingMargin(flow, net.trees[0]!, new MarginWorkspace(2), opts)).toBe(20);
+  });
+
+  it('stops a hopeless sweep early with the verdict it would reach at the iteration limit', () => {
+    // the Baran & Wu feeder (REFERENCES.md 7) as constant-power loads, below and beyond its nose
+    // (about 3.6 times the published load, see the next test); the two-bus line converges in two
+    // sweeps at any load and would not exercise the stop
+    const c = baranWuCase();
+    const net = compileNetworkData(c);
+    let saved = 0;
+    for (const scale of [3, 3.5, 3.7, 4, 6]) {
+      const runs = [false, true].map((stop) => {
+        const flow = new RadialFlow(net);
+        flow.resetInjections();
+        c.loads.forEach((l, i) => {
+          flow.loadP0[i] = l.peakKw / net.baseKva;
+          flow.loadQ0[i] = (l.peakKw * net.loadTanPhi[i]!) / net.baseKva;
+        });
+        flow.flatStart();
+        flow.constantPowerLoads = true;
+        flow.stopWhenHopeless = stop;
+        flow.loadScale = scale;
+        const status = flow.solve(net.trees[0]!, 1e-6, 40);
+        return { status, iterations: flow.iterations, v: flow.vPu.slice() };
+      });
+      const [full, early] = runs as [(typeof runs)[0], (typeof runs)[0]];
+      // a solvable point is solved identically (the stop never cuts a converging sweep);
+      // an unsolvable one fails either way (collapse or no convergence), in no more sweeps
+      expect(early.status === FLOW_OK).toBe(full.status === FLOW_OK);
+      expect(full.status === FLOW_OK).toBe(scale < 3.6);
+      expect(early.iterations).toBeLessThanOrEqual(full.iterations);
+      if (full.status === FLOW_OK) expect(early.v).toEqual(full.v);
+      saved += full.iterations - early.iterations;
+    }
+    expect(saved).toBeGreaterThan(0);
+  });
+
+  it('gives the same 33-bus margin with and without the early stop of hopeless trials', () => {
+    const c = baranWuCase();
+    const net = compileNetworkData(c);
+    const margins = [false, true].map((stop) => {
+      const flow = new RadialFlow(net);
+      flow.resetInjections();
+      c.loads.forEach((l, i) => {
+        flow.loadP0[i] = l.peakKw / net.baseKva;
+        flow.loadQ0[i] = (l.peakKw * net.loadTanPhi[i]!) / net.baseKva;
+      });
+      flow.flatStart();
+      expect(flow.solve(net.trees[0]!, 1e-8, 100)).toBe(FLOW_OK);
+      const ws = new MarginWorkspace(net.busCount);
+      if (!stop)
+        Object.defineProperty(flow, 'stopWhenHopeless', { get: () => false, set: () => {} });
+      return loadingMargin(flow, net.trees[0]!, ws, defaultMarginOptions);
+    });
+    // the search visits the same trials and reaches the same verdicts: identical result
+    expect(margins[1]).toBe(margins[0]);
+    expect(margins[0]!).toBeGreaterThan(3);
   });
 });
