@@ -1,11 +1,18 @@
 /**
  * The piscina worker: a task is a batch of consecutive scenario ids. The case is compiled once
  * per worker (from `workerData`) and cached; each task samples and simulates its scenarios and
- * returns the columns as transferred typed arrays (zero copy, no per-row objects).
+ * returns the columns as typed arrays (no per-row objects).
+ *
+ * The columns are copied back (structured clone), not transferred. Transferring detaches the
+ * worker's ArrayBuffers, and the first detached ArrayBuffer in a V8 isolate makes every later
+ * typed-array access in that isolate check for detachment (V8's ArrayBuffer detaching protector,
+ * from memory): the kernel then ran 12-20 % slower in the worker, while the copy of a
+ * 1,000-scenario batch (under a megabyte) costs well under 1 % of its simulation
+ * (docs/runner.md, Measurements).
  */
-import { move, transferableSymbol, valueSymbol, workerData } from 'piscina';
+import { workerData } from 'piscina';
 import type { Case } from '../case/schema.js';
-import { batchBuffers, type ColumnBatch } from '../results/columns.js';
+import type { ColumnBatch } from '../results/columns.js';
 import { compileKernel, type KernelFaults, type ScenarioKernel } from './kernel.js';
 
 /** What the pool hands every worker once, at start. */
@@ -36,16 +43,7 @@ function kernelOf(setup: WorkerSetup): ScenarioKernel {
   return kernel;
 }
 
-export default function runBatchTask(task: BatchTask): unknown {
-  const batch: ColumnBatch = kernelOf(workerData as WorkerSetup).runBatch(task.firstId, task.count);
-  const buffers = batchBuffers(batch);
-  // TOOLCHAIN.md 2: move() an object through a wrapper naming its transferables
-  return move({
-    get [transferableSymbol]() {
-      return buffers;
-    },
-    get [valueSymbol]() {
-      return batch;
-    },
-  } as never);
+export default function runBatchTask(task: BatchTask): ColumnBatch {
+  // returned as is: piscina copies it (no transfer list, so nothing in this isolate is detached)
+  return kernelOf(workerData as WorkerSetup).runBatch(task.firstId, task.count);
 }
