@@ -180,4 +180,29 @@ describe('loading margin', () => {
     expect(margins[1]).toBe(margins[0]);
     expect(margins[0]!).toBeGreaterThan(3);
   });
+
+  it('finds the 33-bus margin with the default search within its stated tolerance', () => {
+    // Baran & Wu feeder (REFERENCES.md 7) at its published load, constant power: the default
+    // search (1 % bracket, 40 sweeps per trial, early stop of hopeless trials, near-bracket step)
+    // against a tight search (1e-6, 3000 sweeps); docs/voltage.md states the default's tolerance as
+    // at most 1 % below the nose plus the trials that run out of sweeps right at the nose,
+    // measured up to 1.2 % below over 2,962 sampled scenarios: 1.5 % allowed here
+    const c = baranWuCase();
+    const net = compileNetworkData(c);
+    const margin = (opts: typeof defaultMarginOptions) => {
+      const flow = new RadialFlow(net);
+      flow.resetInjections();
+      c.loads.forEach((l, i) => {
+        flow.loadP0[i] = l.peakKw / net.baseKva;
+        flow.loadQ0[i] = (l.peakKw * net.loadTanPhi[i]!) / net.baseKva;
+      });
+      flow.flatStart();
+      expect(flow.solve(net.trees[0]!, 1e-10, 100)).toBe(FLOW_OK);
+      return loadingMargin(flow, net.trees[0]!, new MarginWorkspace(net.busCount), opts);
+    };
+    const nose = margin({ tolPu: 1e-10, maxIter: 3000, relTol: 1e-6, maxFactor: 20 });
+    const quick = margin(defaultMarginOptions);
+    expect(quick).toBeLessThanOrEqual(nose * (1 + 1e-9));
+    expect(quick).toBeGreaterThan(nose * (1 - 0.015));
+  });
 });
