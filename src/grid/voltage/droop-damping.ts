@@ -25,13 +25,16 @@
  * swing-governor model of REFERENCES.md 1.5. Notation: m = m_p, omega_c = the filter corner,
  * K = the synchronising coefficient (W/rad in the reference, pu/rad here).
  *
- * Eigenvalues: ml-matrix EigenvalueDecomposition (Hessenberg reduction and shifted QR, the EISPACK
- * hqr2 route); a probe found it robust where mathjs eigs failed to converge (TOOLCHAIN.md 5).
+ * Eigenvalues: small-eigenvalues.ts (Householder-Hessenberg reduction and Francis double-shift QR,
+ * eigenvalues only, no allocation), checked against ml-matrix EigenvalueDecomposition, which is
+ * the fallback should the QR iteration give up; a probe found ml-matrix robust where mathjs eigs
+ * failed to converge (TOOLCHAIN.md 5).
  * Damping ratio of a mode lambda: zeta = -Re(lambda) / |lambda| (1 for a stable real mode, -1 for
  * an unstable real one); modes with |lambda| below 1e-9 rad/s (neutral drift of isochronous
  * sharing) are skipped.
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
+import { eigenvaluesInPlace } from './small-eigenvalues.js';
 
 export const UNIT_INVERTER = 0;
 export const UNIT_GENSET = 1;
@@ -192,6 +195,17 @@ function addPowerRow(
 /** Neutral modes below this magnitude are skipped, rad/s (numerical zero of a drift mode). */
 const NEUTRAL_MODE_RAD_PER_S = 1e-9;
 
+/**
+ * Work arrays of the eigenvalue routine, grown to the largest model seen (one set per module
+ * instance, i.e. per worker thread; summariseModes is not re-entrant).
+ */
+const scratch = {
+  h: new Float64Array(0),
+  re: new Float64Array(0),
+  im: new Float64Array(0),
+  work: new Float64Array(0),
+};
+
 /** Eigenvalues of the n x n row-major matrix and their damping summary. */
 export function summariseModes(a: Float64Array, n: number, out: ModeSummary): void {
   out.stateCount = n;
@@ -200,11 +214,23 @@ export function summariseModes(a: Float64Array, n: number, out: ModeSummary): vo
   out.criticalImagRadPerS = 0;
   out.unstable = false;
   if (n === 0) return;
-  const m = new Matrix(n, n);
-  for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) m.set(r, c, a[r * n + c]!);
-  const e = new EigenvalueDecomposition(m, { assumeSymmetric: false });
-  const re = e.realEigenvalues;
-  const im = e.imaginaryEigenvalues;
+  if (scratch.h.length < n * n) {
+    scratch.h = new Float64Array(n * n);
+    scratch.re = new Float64Array(n);
+    scratch.im = new Float64Array(n);
+    scratch.work = new Float64Array(n);
+  }
+  scratch.h.set(a.subarray(0, n * n));
+  let re: ArrayLike<number> = scratch.re;
+  let im: ArrayLike<number> = scratch.im;
+  if (!eigenvaluesInPlace(scratch.h, n, scratch.re, scratch.im, scratch.work)) {
+    // the QR iteration gave up (not seen in the tests): ml-matrix's routine instead
+    const m = new Matrix(n, n);
+    for (let r = 0; r < n; r++) for (let c = 0; c < n; c++) m.set(r, c, a[r * n + c]!);
+    const e = new EigenvalueDecomposition(m, { assumeSymmetric: false });
+    re = e.realEigenvalues;
+    im = e.imaginaryEigenvalues;
+  }
   for (let i = 0; i < n; i++) {
     const lr = re[i]!;
     const li = im[i]!;
