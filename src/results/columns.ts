@@ -10,7 +10,7 @@
  *   float64 -> Float64,
  *   utf8 -> Utf8 (free text whose values are not known in advance, such as which sources were
  *     out; held as one Uint8Array per batch: count + 1 little-endian Int32 offsets, then the
- *     UTF-8 bytes, see `packUtf8`), so a batch stays a set of transferable buffers.
+ *     UTF-8 bytes, see `packUtf8`), so a batch stays a set of flat typed arrays (cheap to copy between threads).
  */
 
 export type ColumnKind = 'int64' | 'int16' | 'int8' | 'bool' | 'category' | 'float64' | 'utf8';
@@ -362,9 +362,4 @@ export function allocateBatch(
   const columns: Record<string, ColumnArray> = {};
   for (const s of specs) columns[s.name] = allocateColumn(s, count);
   return { firstId, count, columns };
-}
-
-/** The buffers of a batch, for a zero-copy transfer between threads. */
-export function batchBuffers(b: ColumnBatch): ArrayBuffer[] {
-  return Object.values(b.columns).map((a) => a.buffer as ArrayBuffer);
 }

@@ -10,8 +10,8 @@
  *
  * Hot path: the kernel owns one preallocated `Scenario` struct and the models' result structs;
  * per scenario it allocates nothing (the `sources_out` text is appended as bytes from the
- * source ids encoded once, into a byte buffer that only grows). The batch columns are allocated once per batch (they are
- * transferred to the main thread and cannot be reused).
+ * source ids encoded once, into a byte buffer that only grows). The batch columns are allocated
+ * once per batch: the batch is the task's result, copied to the main thread (worker.ts).
  */
 import type { Case } from '../case/schema.js';
 import { compileOutage, OutageResult, simulateOutage } from '../energy/outage.js';
