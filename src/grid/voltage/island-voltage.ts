@@ -17,7 +17,7 @@
  * convergence), with finite numbers and the violation flag set, never NaN.
  *
  * A NetworkModel carries its own work arrays: one per worker thread, reused scenario after
- * scenario (no allocation on the flow path; the eigenvalue routine allocates its small matrices).
+ * scenario (no allocation on the flow path, nor in the eigenvalue routine after its first call).
  *
  * Screening estimates only: protection settings and interconnection are decided under local codes
  * by licensed engineers.
