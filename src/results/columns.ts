@@ -354,12 +354,65 @@ export interface ColumnBatch {
   columns: Record<string, ColumnArray>;
 }
 
+function columnBytes(spec: ColumnSpec, count: number): number {
+  switch (spec.kind) {
+    case 'int64':
+    case 'float64':
+      return 8 * count;
+    case 'int16':
+      return 2 * count;
+    case 'int8':
+    case 'category':
+    case 'bool':
+      return count;
+    case 'utf8':
+      return 4 * (count + 1);
+  }
+}
+
+function alignedBytes(spec: ColumnSpec, count: number): number {
+  return Math.ceil(columnBytes(spec, count) / 8) * 8;
+}
+
+function columnOver(
+  spec: ColumnSpec,
+  count: number,
+  buf: SharedArrayBuffer,
+  at: number,
+): ColumnArray {
+  switch (spec.kind) {
+    case 'int64':
+      return new BigInt64Array(buf, at, count);
+    case 'int16':
+      return new Int16Array(buf, at, count);
+    case 'int8':
+    case 'category':
+      return new Int8Array(buf, at, count);
+    case 'bool':
+      return new Uint8Array(buf, at, count);
+    case 'float64':
+      return new Float64Array(buf, at, count);
+    case 'utf8':
+      return new Uint8Array(buf, at, 4 * (count + 1));
+  }
+}
+
 export function allocateBatch(
   specs: readonly ColumnSpec[],
   firstId: number,
   count: number,
 ): ColumnBatch {
+  // One SharedArrayBuffer per batch, sliced per column (8-byte aligned): the worker returns the
+  // batch by reference without detaching anything (detaching an ArrayBuffer slows every
+  // typed-array access in that isolate, docs/runner.md "Pool overhead") and without a copy.
+  let bytes = 0;
+  for (const s of specs) bytes += alignedBytes(s, count);
+  const shared = new SharedArrayBuffer(bytes);
   const columns: Record<string, ColumnArray> = {};
-  for (const s of specs) columns[s.name] = allocateColumn(s, count);
+  let at = 0;
+  for (const s of specs) {
+    columns[s.name] = columnOver(s, count, shared, at);
+    at += alignedBytes(s, count);
+  }
   return { firstId, count, columns };
 }

@@ -3,12 +3,12 @@
  * per worker (from `workerData`) and cached; each task samples and simulates its scenarios and
  * returns the columns as typed arrays (no per-row objects).
  *
- * The columns are copied back (structured clone), not transferred. Transferring detaches the
- * worker's ArrayBuffers, and the first detached ArrayBuffer in a V8 isolate makes every later
- * typed-array access in that isolate check for detachment (V8's ArrayBuffer detaching protector,
- * from memory): the kernel then ran 12-20 % slower in the worker, while the copy of a
- * 1,000-scenario batch (under a megabyte) costs well under 1 % of its simulation
- * (docs/runner.md, Measurements).
+ * The columns live in one SharedArrayBuffer per batch (results/columns.ts allocateBatch), so the
+ * return value crosses to the main thread by reference: no copy and no transfer. A transfer would
+ * detach the worker's ArrayBuffers, and the first detached ArrayBuffer in a V8 isolate makes
+ * every later typed-array access in that isolate check for detachment (V8's ArrayBuffer
+ * detaching protector, from memory): the kernel then ran 12-20 % slower in the worker
+ * (docs/runner.md, Measurements). The worker never touches a batch after returning it.
  */
 import { workerData } from 'piscina';
 import type { Case } from '../case/schema.js';
