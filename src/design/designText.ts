@@ -78,7 +78,7 @@ export function comparisonText(
 }
 
 function driverLine(r: DriverRow, level: number): string {
-  return `  ${r.stratum} (${r.driver.replaceAll('_', ' ')}): ${percentText(r.probability)} (${levelText(level)} CI ${percentText(r.ciLow)} to ${percentText(r.ciHigh)}), ${numberText(r.riskRatio)} times the rest (CI ${numberText(r.rrCiLow)} to ${numberText(r.rrCiHigh)}), ${percentText(r.shareOfEvents)} of the events`;
+  return `  ${r.stratum} (${r.driver.replaceAll('_', ' ')}): ${percentText(r.probability)} (${levelText(level)} CI ${percentText(r.ciLow)} to ${percentText(r.ciHigh)}), ${r.riskRatio === Number.POSITIVE_INFINITY ? 'no events in the rest, so no finite ratio' : `${numberText(r.riskRatio)} times the rest`} (CI ${numberText(r.rrCiLow)} to ${numberText(r.rrCiHigh)}), ${percentText(r.shareOfEvents)} of the events`;
 }
 
 /** The short "top drivers" table: strata with a clear excess risk, and the causes of shutdown. */
