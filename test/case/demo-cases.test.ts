@@ -1,3 +1,4 @@
+// Source: JSON Schema draft 2020-12 (json-schema.org) through ajv, an independent validator.
 import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';

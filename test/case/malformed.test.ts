@@ -1,3 +1,4 @@
+// Source: none needed: the malformed-case corpus exercises input validation (internal behaviour); YAML 1.2 alias semantics (yaml.org spec 1.2.2).
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';

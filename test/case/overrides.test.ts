@@ -1,3 +1,4 @@
+// Source: none needed: --set override paths (internal behaviour).
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import YAML from 'yaml';

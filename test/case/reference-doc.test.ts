@@ -1,3 +1,4 @@
+// Source: none needed: the generated case-file reference matches the schema (internal behaviour).
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { caseReferenceMarkdown, unitOfKey } from '../../src/case/reference-doc.js';

@@ -1,3 +1,4 @@
+// Source: UFLS ordering rules as in common UFLS plans (REFERENCES.md 4.1-4.5; common practice, no source).
 import { readFileSync } from 'node:fs';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';

@@ -1,3 +1,4 @@
+// Source: 5 % governor droop as in Glover, Sarma & Overbye Example 12.4 (REFERENCES.md 1.3a); the rest is internal behaviour.
 import { describe, expect, it } from 'vitest';
 import { z } from 'zod';
 import { caseSchema } from '../../src/case/schema.js';

@@ -1,3 +1,4 @@
+// Source: none needed: exit codes of CONTRACT.md (internal behaviour).
 import { describe, expect, it } from 'vitest';
 import { exitCode, InterruptedError, reportError } from '../../src/cli/exit.js';
 import { memoryIo } from '../../src/cli/io.js';

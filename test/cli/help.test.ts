@@ -1,3 +1,4 @@
+// Source: none needed: help texts (internal behaviour).
 /**
  * The help text of the shared options: `--out` names each command's own default folder (the
  * defaults of src/cli/commands/*.ts), and `--fail-if` says it judges the confidence bound in

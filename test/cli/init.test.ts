@@ -1,3 +1,4 @@
+// Source: none needed: the starter case validates (internal behaviour).
 import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';

@@ -1,3 +1,4 @@
+// Source: none needed: option parsing (internal behaviour; exit codes of CONTRACT.md).
 import { describe, expect, it } from 'vitest';
 import { optionTable, parseOptions } from '../../src/cli/options.js';
 import { CaseError } from '../../src/errors.js';

@@ -1,3 +1,4 @@
+// Source: none needed: command dispatch and error lines (internal behaviour).
 import { describe, expect, it } from 'vitest';
 import { memoryIo } from '../../src/cli/io.js';
 import { parseCommandLine, runCli } from '../../src/cli/program.js';

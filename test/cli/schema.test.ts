@@ -1,3 +1,4 @@
+// Source: JSON Schema draft 2020-12 (json-schema.org) for the printed schema.
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { describe, expect, it } from 'vitest';
 import { memoryIo } from '../../src/cli/io.js';

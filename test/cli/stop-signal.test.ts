@@ -1,3 +1,4 @@
+// Source: none needed: signal handling (internal behaviour).
 /**
  * The shared plumbing of the long commands: the stop signal is handed to the work and its
  * listeners are gone afterwards (also when the work throws), a partial run maps to exit 130 or

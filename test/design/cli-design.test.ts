@@ -1,3 +1,4 @@
+// Source: Newcombe, Stat Med 17:2635-2650, 1998 (paired square-and-add, method 10; REFERENCES.md 9.5); common random numbers (a standard Monte Carlo variance-reduction property, common practice, no source).
 /**
  * `holdfast compare` and `holdfast sweep` in-process on the bundled demo case (cases/kestrel-island,
  * invented): exit codes of CONTRACT.md (2 for bad input with nothing written, 1 for an exceeded

@@ -1,3 +1,4 @@
+// Source: Newcombe 1998 (paired interval, REFERENCES.md 9.5) and the law of total probability for the strata sums; property tests with fast-check at fixed seeds.
 /**
  * Property tests (fast-check, fixed seeds): the stratified probabilities add back for any
  * weighted sample, the paired difference of any two outcome vectors is the difference of the

@@ -1,3 +1,4 @@
+// Source: none needed: gate parsing and evaluation on the confidence bounds (internal behaviour).
 import { describe, expect, it } from 'vitest';
 import {
   anyGateExceeded,

@@ -1,3 +1,4 @@
+// Source: none needed: parsing of sweep values (internal behaviour, no outside reference).
 import { describe, expect, it } from 'vitest';
 import { parseSweepSets } from '../../src/design/sweepValues.js';
 import { CaseError } from '../../src/errors.js';

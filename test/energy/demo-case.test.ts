@@ -1,3 +1,4 @@
+// Source: none beyond the invariants checked here (energy conservation, limits of the demo case); common practice, no source.
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { loadCase } from '../../src/case/load.js';

@@ -1,3 +1,4 @@
+// Source: Billinton & Allan, Reliability Evaluation of Power Systems, 2nd ed., 1996 (exponential law); Wilson 1927 score interval (REFERENCES.md 9.1).
 import { describe, expect, it } from 'vitest';
 import { buildOutageModel, OutageResult, simulateOutage } from '../../src/energy/outage.js';
 import { conditionsAtHour } from '../../src/sample/conditions.js';

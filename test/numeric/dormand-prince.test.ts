@@ -1,3 +1,4 @@
+// Source: Dormand & Prince, J. Comput. Appl. Math. 6:19-26, 1980; Hairer, Norsett & Wanner, Solving ODEs I, sec. II.4-II.6; odex as an oracle.
 import { Solver } from 'odex';
 import { describe, expect, it } from 'vitest';
 import {

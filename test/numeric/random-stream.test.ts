@@ -1,3 +1,4 @@
+// Source: seedrandom 3.0.5's xor128 as the oracle (bit for bit); Marsaglia, J. Statistical Software 8(14), 2003.
 import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import {

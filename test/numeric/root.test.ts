@@ -1,3 +1,4 @@
+// Source: Dowell & Jarratt, BIT 11:168-174, 1971 (Illinois method, from memory).
 import { describe, expect, it } from 'vitest';
 import { illinoisRoot, type ScalarFunction } from '../../src/numeric/root.js';
 

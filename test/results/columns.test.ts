@@ -1,3 +1,4 @@
+// Source: none needed: the column dictionary against CONTRACT.md (internal behaviour).
 /**
  * The column table against the contract (../shared/CONTRACT.md, "scenarios.arrow: required
  * columns"): every required column is present with its stated type, names are unique snake case

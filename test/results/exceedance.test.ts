@@ -1,3 +1,4 @@
+// Source: binomial counting per threshold with Wilson / Clopper-Pearson intervals (REFERENCES.md 9.1-9.2) and annualisation (9.6); seedrandom drives the synthetic rows.
 import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import { RunError } from '../../src/errors.js';

@@ -1,3 +1,4 @@
+// Source: Wilson 1927 and Clopper & Pearson 1934 intervals (REFERENCES.md 9.1-9.3), annualisation 1 - exp(-lambda p) (REFERENCES.md 9.6).
 import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';
 import { RunError } from '../../src/errors.js';

@@ -1,3 +1,4 @@
+// Source: none needed: the run command end to end (CONTRACT.md exit codes and outputs).
 /**
  * `holdfast run`, `replay` and `merge` in-process through the CLI frame: exit codes and outputs
  * of CONTRACT.md, the headline text with its caution, `--json`, and replay printing the same

@@ -1,3 +1,4 @@
+// Source: independent readers (nodejs-polars for Arrow IPC, DuckDB for Parquet) against summary.arrow (REFERENCES.md 9 estimators).
 /**
  * Independent readers of the run's files: nodejs-polars 0.25.2 (the Rust polars Arrow IPC reader)
  * on scenarios.arrow and summary.arrow, and DuckDB (@duckdb/node-api) on the Parquet copies.

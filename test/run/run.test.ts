@@ -1,3 +1,4 @@
+// Source: none needed: determinism across workers, shards and resume (CONTRACT.md "Determinism").
 /**
  * The pool end to end on a small invented case: determinism across workers and batch sizes,
  * shards merged equal one run, resume after a deterministic interruption equals an

@@ -1,3 +1,4 @@
+// Source: none needed: the sources_out column (internal behaviour).
 /**
  * The `sources_out` column: per scenario the ids of the sources unavailable at the event hour
  * (forced outage or maintenance), joined by '+'. Checked against the case itself (a source

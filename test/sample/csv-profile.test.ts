@@ -1,3 +1,4 @@
+// Source: none needed: CSV profile reading and its error messages (internal behaviour).
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';

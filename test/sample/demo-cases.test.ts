@@ -1,3 +1,4 @@
+// Source: invariants of the sampler on the invented demo cases (PV within rating, zero at night; common practice, no source).
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { loadCase } from '../../src/case/load.js';

@@ -1,3 +1,4 @@
+// Source: REFERENCES.md 9.6 (Poisson thinning, Billinton & Allan; from memory there), with its recomputed check values.
 import { describe, expect, it } from 'vitest';
 import {
   failuresPerYear,

@@ -1,3 +1,4 @@
+// Source: Cochran, Sampling Techniques, 3rd ed., 1977, ch. 6 (ratio-estimator variance, from memory); Kish, Survey Sampling, 1965 (effective sample size, from memory).
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { momentSumsOf, weightedMeanInterval } from '../../src/stats/mean.js';

@@ -1,3 +1,4 @@
+// Source: Newcombe, Stat Med 17:857-872, 1998 (Table II); Fagerland, Lydersen & Laake, Statistical Analysis of Contingency Tables, 2017, ch. 2; Clopper & Pearson, Biometrika 26:404-413, 1934 (from memory); jstat as an oracle (REFERENCES.md 9.1-9.4).
 import fc from 'fast-check';
 import seedrandom from 'seedrandom';
 import { describe, expect, it } from 'vitest';

@@ -1,3 +1,4 @@
+// Source: Hairer's ODEX extrapolation solver (odex package; Hairer, Norsett & Wanner, Solving ODEs I, sec. II.9) as an independent oracle.
 /**
  * The whole engine (integrator + island assembly) against a general-purpose ODE solver, odex
  * (Hairer's GBS extrapolation method, E. Hairer, S. P. Norsett, G. Wanner, Solving ODEs I,

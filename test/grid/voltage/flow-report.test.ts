@@ -1,3 +1,4 @@
+// Source: Baran & Wu, IEEE Trans. Power Delivery 4(2):1401-1407, 1989 (REFERENCES.md 7) through the flow report.
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';

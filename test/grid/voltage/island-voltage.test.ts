@@ -1,3 +1,4 @@
+// Source: Baran & Wu 1989 (REFERENCES.md 7) and the reduced droop model of REFERENCES.md 10.
 import { describe, expect, it } from 'vitest';
 import {
   assessIsland,

@@ -1,3 +1,4 @@
+// Source: per-unit impedance Z_base = V_base^2 / S_base (Glover, Sarma & Overbye, Power System Analysis & Design, ch. 3, from memory).
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { CaseError } from '../../../src/errors.js';

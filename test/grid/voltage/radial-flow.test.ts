@@ -1,3 +1,4 @@
+// Source: Baran & Wu, IEEE Trans. Power Delivery 4(2):1401-1407, 1989 (REFERENCES.md 7: V18 0.91309 pu, 202.677 kW).
 import { describe, expect, it } from 'vitest';
 import { linDistFlow } from '../../../src/grid/voltage/lin-dist-flow.js';
 import { compileNetworkData, type NetworkData } from '../../../src/grid/voltage/network.js';

@@ -1,3 +1,4 @@
+// Source: ml-matrix EigenvalueDecomposition as an independent oracle; companion-matrix roots (Golub & Van Loan, Matrix Computations, sec. 7.4, from memory).
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { eigenvaluesInPlace } from '../../../src/grid/voltage/small-eigenvalues.js';
