@@ -10,10 +10,9 @@ import type { Case } from '../case/schema.js';
 import { EventResult } from '../grid/frequency/event-result.js';
 import { compileIsland } from '../grid/frequency/island.js';
 import { type EventOptions, simulateEvent } from '../grid/frequency/simulate.js';
+import { accuracy, SEED } from './frequency-accuracy.js';
 import { fiftySourceCase } from './frequency-large-case.js';
 import { benchScenario, makeBenchScenario } from './frequency-operating-points.js';
-
-const SEED = 'bench-frequency';
 
 export interface LargeRate {
   eventsPerS: number;
@@ -60,34 +59,15 @@ export function largeRate(
     }
     best = Math.max(best, count / (simMs / 1000));
   }
-  const ref = new EventResult(c.sources.length, c.loads.length);
-  const tight: EventOptions = { ...opts, relTol: 1e-11, absTol: 1e-13, maxStepS: 0.05 };
-  const errors = new Float64Array(accuracyCount);
-  let mismatches = 0;
-  for (let id = 0; id < accuracyCount; id++) {
-    benchScenario(c, SEED, id, op);
-    simulateEvent(isl, op, opts, out);
-    simulateEvent(isl, op, tight, ref);
-    errors[id] = Math.abs(out.nadirHz - ref.nadirHz);
-    if (
-      out.shedStages !== ref.shedStages ||
-      out.shutdown !== ref.shutdown ||
-      out.shutdownCause !== ref.shutdownCause
-    )
-      mismatches++;
-  }
-  errors.sort();
+  const acc = accuracy(c, accuracyCount, opts);
   return {
     eventsPerS: best,
     evaluationsPerEvent: evals / count,
     stepsPerEvent: steps / count,
     rejectedPerEvent: rejected / count,
-    nadirErrorP99Hz:
-      accuracyCount > 0
-        ? errors[Math.min(accuracyCount - 1, Math.floor(0.99 * accuracyCount))]!
-        : 0,
-    nadirErrorMaxHz: accuracyCount > 0 ? errors[accuracyCount - 1]! : 0,
-    outcomeMismatches: mismatches,
+    nadirErrorP99Hz: acc.p99,
+    nadirErrorMaxHz: acc.max,
+    outcomeMismatches: Math.round(acc.mismatchShare * accuracyCount),
   };
 }
 

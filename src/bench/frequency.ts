@@ -11,12 +11,12 @@ import type { Case } from '../case/schema.js';
 import { EventResult } from '../grid/frequency/event-result.js';
 import { compileIsland } from '../grid/frequency/island.js';
 import { type EventOptions, simulateEvent } from '../grid/frequency/simulate.js';
+import { accuracy, SEED } from './frequency-accuracy.js';
 import { fiftySourceCase } from './frequency-large-case.js';
 import { benchScenario, makeBenchScenario } from './frequency-operating-points.js';
 import { naiveSimulate } from './naive-frequency.js';
 
 const demoCasePath = fileURLToPath(new URL('../../cases/kestrel-island.yaml', import.meta.url));
-const SEED = 'bench-frequency';
 
 /** Events per second over `count` seeded scenarios (after a warm-up). */
 function eventsPerSecond(
@@ -43,41 +43,6 @@ function eventsPerSecond(
   }
   const seconds = (performance.now() - t0 - buildMs) / 1000;
   return { rate: count / seconds, evals: evals / count };
-}
-
-/** Nadir error p99 and outcome mismatches against a tight-tolerance reference. */
-function accuracy(c: Case, count: number, opts: EventOptions) {
-  const isl = compileIsland(c);
-  const op = makeBenchScenario(c);
-  const a = new EventResult(c.sources.length, c.loads.length);
-  const b = new EventResult(c.sources.length, c.loads.length);
-  const tight: EventOptions = { ...opts, relTol: 1e-11, absTol: 1e-13, maxStepS: 0.05 };
-  const errors = new Float64Array(count);
-  let mismatches = 0;
-  let shedding = 0;
-  let shutdowns = 0;
-  for (let id = 0; id < count; id++) {
-    benchScenario(c, SEED, id, op);
-    simulateEvent(isl, op, opts, a);
-    simulateEvent(isl, op, tight, b);
-    errors[id] = Math.abs(a.nadirHz - b.nadirHz);
-    if (
-      a.shedStages !== b.shedStages ||
-      a.shutdown !== b.shutdown ||
-      a.shutdownCause !== b.shutdownCause
-    )
-      mismatches++;
-    if (b.shedStages > 0) shedding++;
-    if (b.shutdown) shutdowns++;
-  }
-  errors.sort();
-  return {
-    p99: errors[Math.min(count - 1, Math.floor(0.99 * count))]!,
-    max: errors[count - 1]!,
-    mismatchShare: mismatches / count,
-    shedShare: shedding / count,
-    shutdownShare: shutdowns / count,
-  };
 }
 
 /** p99 of |nadir(a) - nadir(b)| between two option sets (both at tight tolerance). */
