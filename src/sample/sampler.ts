@@ -161,32 +161,21 @@ export function compileSampler(c: Case, caseDir: string): SamplerContext {
     if (sum > yearlyPeakLoadKw) yearlyPeakLoadKw = sum;
   }
 
-  const pv = c.sources.map((s, i) => {
-    if (s.kind !== 'pv') return null;
-    const r = s.resource;
-    const csv =
-      r.kind === 'csv'
-        ? readCsvProfile(
-            { file: r.file, column: r.column, path: `/sources/${i}/resource` },
-            caseDir,
-            cache,
-          )
-        : null;
-    return new PvResource(s, csv);
-  });
-  const wind = c.sources.map((s, i) => {
-    if (s.kind !== 'wind') return null;
-    const r = s.resource;
-    const csv =
-      r.kind === 'csv'
-        ? readCsvProfile(
-            { file: r.file, column: r.column, path: `/sources/${i}/resource` },
-            caseDir,
-            cache,
-          )
-        : null;
-    return new WindResource(s, csv);
-  });
+  // the hourly capacity-factor series of a PV or wind source given by CSV, else null
+  const resourceCsv = (r: { kind: string; file?: string; column?: string | number }, i: number) =>
+    r.kind === 'csv' && r.file !== undefined
+      ? readCsvProfile(
+          { file: r.file, column: r.column ?? 0, path: `/sources/${i}/resource` },
+          caseDir,
+          cache,
+        )
+      : null;
+  const pv = c.sources.map((s, i) =>
+    s.kind === 'pv' ? new PvResource(s, resourceCsv(s.resource, i)) : null,
+  );
+  const wind = c.sources.map((s, i) =>
+    s.kind === 'wind' ? new WindResource(s, resourceCsv(s.resource, i)) : null,
+  );
 
   const scenarioDims = new Int32Array(scenarioSlots);
   for (let k = 0; k < scenarioSlots; k++) {
