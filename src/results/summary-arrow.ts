@@ -3,22 +3,10 @@
  * interval, unit, scenarios behind it and estimator) and `exceedance.arrow` (one row per
  * quantity and threshold). Every field carries `unit` and `description` metadata.
  */
-import {
-  type DataType,
-  Field,
-  Float64,
-  Int64,
-  makeData,
-  RecordBatch,
-  Schema,
-  Struct,
-  Table,
-  tableToIPC,
-  Utf8,
-  vectorFromArray,
-} from 'apache-arrow';
+import { type Table, tableToIPC } from 'apache-arrow';
 import type { ExceedanceRow } from './exceedance.js';
 import { writeFileAtomic } from './manifest.js';
+import { columnTable, type TableColumn } from './small-table.js';
 import type { SummaryRow } from './summary.js';
 
 /** One column of a small table: how to read it from a row object. */
@@ -30,35 +18,24 @@ export interface SmallColumn<R> {
   value: (row: R) => string | number;
 }
 
-const arrowTypes: Record<SmallColumn<unknown>['type'], () => DataType> = {
-  utf8: () => new Utf8(),
-  float64: () => new Float64(),
-  int64: () => new Int64(),
-};
-
+/** Row objects to a table: each column read from the rows, then the one column builder. */
 export function smallTable<R>(columns: readonly SmallColumn<R>[], rows: readonly R[]): Table {
-  const fields = columns.map(
-    (c) =>
-      new Field(
-        c.name,
-        arrowTypes[c.type](),
-        false,
-        new Map([
-          ['unit', c.unit],
-          ['description', c.description],
-        ]),
-      ),
+  return columnTable(
+    columns.map((c): TableColumn => {
+      const values = rows.map(c.value);
+      return c.type === 'utf8'
+        ? { ...meta(c), kind: 'utf8', values: values.map(String) }
+        : { ...meta(c), kind: c.type, values: values.map(Number) };
+    }),
   );
-  const schema = new Schema(fields);
-  const children = columns.map((c, k) => {
-    const values = rows.map((r) => {
-      const v = c.value(r);
-      return c.type === 'int64' ? BigInt(v) : v;
-    });
-    return vectorFromArray(values as never, fields[k]!.type).data[0]!;
-  });
-  const struct = makeData({ type: new Struct(fields), length: rows.length, children });
-  return new Table([new RecordBatch(schema, struct)]);
+}
+
+function meta(c: { name: string; unit: string; description: string }): {
+  name: string;
+  unit: string;
+  description: string;
+} {
+  return { name: c.name, unit: c.unit, description: c.description };
 }
 
 export const summaryColumns: readonly SmallColumn<SummaryRow>[] = [
